@@ -1,0 +1,160 @@
+/**
+ * Statistics of a sampled temperature history: time means, extremes between samples, time
+ * inside a window. Samples are uniform in the eccentric anomaly E; time enters through the
+ * explicit t(E), so every mean is a time mean and every duration is exact for the interpolant.
+ * For a periodic, smooth integrand the trapezoidal rule on a uniform grid converges
+ * geometrically (Trefethen & Weideman 2014, SIAM Review 56, 385), which is why the grid is in E:
+ * near periastron of a very eccentric orbit E spreads out what t crams together.
+ */
+
+/** Time mean of values v_k sampled at E_k, weighted by dt/dE at each sample (trapezoidal rule). */
+export function timeMean(values: Float64Array, timePerAnomaly: Float64Array): number {
+  const last = values.length - 1;
+  let sum = 0.5 * (values[0]! * timePerAnomaly[0]! + values[last]! * timePerAnomaly[last]!);
+  let weight = 0.5 * (timePerAnomaly[0]! + timePerAnomaly[last]!);
+  for (let k = 1; k < last; k++) {
+    sum += values[k]! * timePerAnomaly[k]!;
+    weight += timePerAnomaly[k]!;
+  }
+  return sum / weight;
+}
+
+/** Cubic Hermite interpolant on [xa, xb] through (ya, da) and (yb, db) at x. */
+export function hermite(xa: number, xb: number, ya: number, yb: number, da: number, db: number, x: number): number {
+  const h = xb - xa;
+  const s = (x - xa) / h;
+  const h00 = (1 + 2 * s) * (1 - s) * (1 - s);
+  const h10 = s * (1 - s) * (1 - s);
+  const h01 = s * s * (3 - 2 * s);
+  const h11 = s * s * (s - 1);
+  return h00 * ya + h10 * h * da + h01 * yb + h11 * h * db;
+}
+
+export interface Extremum {
+  /** Abscissa of the extremum (E, rad). */
+  x: number;
+  value: number;
+}
+
+/**
+ * Maximum (sign = 1) or minimum (sign = −1) of a sampled function with known derivatives,
+ * refined between samples with the cubic Hermite interpolant (error O(h⁴)).
+ */
+export function hermiteExtremum(xs: Float64Array, ys: Float64Array, ds: Float64Array, sign: 1 | -1): Extremum {
+  let best = 0;
+  for (let k = 1; k < ys.length; k++) if (sign * ys[k]! > sign * ys[best]!) best = k;
+  let result: Extremum = { x: xs[best]!, value: ys[best]! };
+  for (const k of [best - 1, best]) {
+    if (k < 0 || k + 1 >= ys.length) continue;
+    const xa = xs[k]!;
+    const xb = xs[k + 1]!;
+    const h = xb - xa;
+    // d/ds of the Hermite cubic is a quadratic a s² + b s + c; its roots in (0, 1) are candidates.
+    const ya = ys[k]!;
+    const yb = ys[k + 1]!;
+    const ma = h * ds[k]!;
+    const mb = h * ds[k + 1]!;
+    const a = 6 * ya + 3 * ma - 6 * yb + 3 * mb;
+    const b = -6 * ya - 4 * ma + 6 * yb - 2 * mb;
+    const c = ma;
+    const roots: number[] = [];
+    if (Math.abs(a) < 1e-300) {
+      if (b !== 0) roots.push(-c / b);
+    } else {
+      const disc = b * b - 4 * a * c;
+      if (disc >= 0) {
+        const q = -0.5 * (b + Math.sign(b || 1) * Math.sqrt(disc));
+        roots.push(q / a);
+        if (q !== 0) roots.push(c / q);
+      }
+    }
+    for (const s of roots) {
+      if (!(s > 0 && s < 1)) continue;
+      const x = xa + s * h;
+      const v = hermite(xa, xb, ya, yb, ds[k]!, ds[k + 1]!, x);
+      if (sign * v > sign * result.value) result = { x, value: v };
+    }
+  }
+  return result;
+}
+
+/**
+ * Maximum (sign = 1) or minimum (sign = −1) of an explicit function f sampled at xs: the best
+ * sample, refined by golden-section search on its two neighbouring intervals.
+ */
+export function refinedExtremum(xs: Float64Array, ys: Float64Array, f: (x: number) => number, sign: 1 | -1): Extremum {
+  let best = 0;
+  for (let k = 1; k < ys.length; k++) if (sign * ys[k]! > sign * ys[best]!) best = k;
+  let lo = xs[Math.max(0, best - 1)]!;
+  let hi = xs[Math.min(xs.length - 1, best + 1)]!;
+  const ratio = (Math.sqrt(5) - 1) / 2;
+  let x1 = hi - ratio * (hi - lo);
+  let x2 = lo + ratio * (hi - lo);
+  let f1 = sign * f(x1);
+  let f2 = sign * f(x2);
+  for (let i = 0; i < 80 && hi - lo > 1e-13 * Math.max(1, Math.abs(hi)); i++) {
+    if (f1 > f2) {
+      hi = x2;
+      x2 = x1;
+      f2 = f1;
+      x1 = hi - ratio * (hi - lo);
+      f1 = sign * f(x1);
+    } else {
+      lo = x1;
+      x1 = x2;
+      f1 = f2;
+      x2 = lo + ratio * (hi - lo);
+      f2 = sign * f(x2);
+    }
+  }
+  const x = 0.5 * (lo + hi);
+  const v = f(x);
+  return sign * v > sign * ys[best]! ? { x, value: v } : { x: xs[best]!, value: ys[best]! };
+}
+
+/**
+ * Time spent with low ≤ y ≤ high, s, for a Hermite-interpolated sampled history; `timeAt`
+ * converts the abscissa to time. Crossings are located by bisection on the interpolant.
+ */
+export function timeInWindow(
+  xs: Float64Array,
+  ys: Float64Array,
+  ds: Float64Array,
+  low: number,
+  high: number,
+  timeAt: (x: number) => number,
+): number {
+  const inside = (v: number): boolean => v >= low && v <= high;
+  let total = 0;
+  for (let k = 0; k + 1 < xs.length; k++) {
+    const xa = xs[k]!;
+    const xb = xs[k + 1]!;
+    const f = (x: number): number => hermite(xa, xb, ys[k]!, ys[k + 1]!, ds[k]!, ds[k + 1]!, x);
+    // Split the interval at every threshold crossing of the interpolant; four probes per interval
+    // catch a cubic that leaves and re-enters the window between samples.
+    let segmentStart = xa;
+    let previousX = xa;
+    let previousInside = inside(ys[k]!);
+    const probes = 4;
+    for (let p = 1; p <= probes; p++) {
+      const x = xa + ((xb - xa) * p) / probes;
+      const now = inside(p === probes ? ys[k + 1]! : f(x));
+      if (now !== previousInside) {
+        let lo = previousX;
+        let hi = x;
+        for (let i = 0; i < 60; i++) {
+          const mid = 0.5 * (lo + hi);
+          if (inside(f(mid)) === previousInside) lo = mid;
+          else hi = mid;
+        }
+        const crossing = 0.5 * (lo + hi);
+        if (previousInside) total += timeAt(crossing) - timeAt(segmentStart);
+        segmentStart = crossing;
+        previousInside = now;
+      }
+      previousX = x;
+    }
+    if (previousInside) total += timeAt(xb) - timeAt(segmentStart);
+  }
+  return total;
+}

@@ -1,0 +1,76 @@
+/**
+ * Lumped energy balance of a surface layer with areal heat capacity C:
+ *   C dT/dt = F(t) + q − εσT⁴
+ * with F the absorbed stellar flux, q an internal heat flux and ε the emissivity (common practice;
+ * e.g. Pierrehumbert, Principles of Planetary Climate, 2010, ch. 7, from memory).
+ * Written in the eccentric anomaly E, where dt/dE = (1 − e cos E)/n (Kepler's equation
+ * differentiated), so the distance is explicit and no Kepler solve enters the right-hand side.
+ */
+import { STEFAN_BOLTZMANN } from "../constants.js";
+import { requireNumber } from "../errors.js";
+import type { OdeSystem } from "../solve/system.js";
+import type { Forcing } from "./forcing.js";
+import { meanMotion, type Orbit } from "./orbit.js";
+
+export interface SurfaceProperties {
+  /** Bond albedo A, 0 ≤ A ≤ 1 (enters through the forcing). */
+  albedo: number;
+  /** Thermal emissivity ε, 0 < ε ≤ 1. */
+  emissivity: number;
+  /** Areal heat capacity C, J m⁻² K⁻¹ (> 0). */
+  heatCapacityJPerM2K: number;
+  /** Internal (geothermal, tidal) heat flux q, W m⁻² (≥ 0). */
+  internalFluxWPerM2: number;
+}
+
+export function checkSurface(s: SurfaceProperties): void {
+  requireNumber("body.albedo", s.albedo, (a) => a >= 0 && a <= 1, "0 ≤ A ≤ 1");
+  requireNumber("body.emissivity", s.emissivity, (e) => e > 0 && e <= 1, "0 < ε ≤ 1");
+  requireNumber("body.heatCapacity", s.heatCapacityJPerM2K, (c) => c > 0, "C > 0 J m⁻² K⁻¹");
+  requireNumber("body.internalFlux", s.internalFluxWPerM2, (q) => q >= 0, "q ≥ 0 W m⁻²");
+}
+
+/** Radiative relaxation time τ = C / (4εσT³) at temperature T, s: the e-folding time of small departures. */
+export function radiativeTimeSeconds(heatCapacityJPerM2K: number, emissivity: number, temperatureK: number): number {
+  return heatCapacityJPerM2K / (4 * emissivity * STEFAN_BOLTZMANN * temperatureK ** 3);
+}
+
+/** One lumped surface; state y = [T] in K, independent variable E in rad. */
+export class LumpedBalance implements OdeSystem {
+  readonly dimension = 1;
+  private readonly eccentricity: number;
+  private readonly inverseMeanMotion: number;
+  private readonly emissionCoefficient: number;
+  private readonly inverseHeatCapacity: number;
+  private readonly internalFlux: number;
+
+  constructor(
+    readonly orbit: Orbit,
+    readonly surface: SurfaceProperties,
+    readonly forcing: Forcing,
+  ) {
+    checkSurface(surface);
+    this.eccentricity = orbit.eccentricity;
+    this.inverseMeanMotion = 1 / meanMotion(orbit);
+    this.emissionCoefficient = surface.emissivity * STEFAN_BOLTZMANN;
+    this.inverseHeatCapacity = 1 / surface.heatCapacityJPerM2K;
+    this.internalFlux = surface.internalFluxWPerM2;
+  }
+
+  /** dt/dE = (1 − e cos E)/n, s rad⁻¹. */
+  timePerAnomaly(eccentricAnomalyRad: number): number {
+    return (1 - this.eccentricity * Math.cos(eccentricAnomalyRad)) * this.inverseMeanMotion;
+  }
+
+  derivative(x: number, y: ArrayLike<number>, out: Float64Array): void {
+    const t = y[0]!;
+    const t2 = t * t;
+    const net = this.forcing.absorbedAt(x) + this.internalFlux - this.emissionCoefficient * t2 * t2;
+    out[0] = this.timePerAnomaly(x) * net * this.inverseHeatCapacity;
+  }
+
+  jacobian(x: number, y: ArrayLike<number>, out: Float64Array): void {
+    const t = y[0]!;
+    out[0] = -this.timePerAnomaly(x) * 4 * this.emissionCoefficient * t * t * t * this.inverseHeatCapacity;
+  }
+}

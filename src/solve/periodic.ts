@@ -1,0 +1,274 @@
+/**
+ * Periodic steady state by shooting: find y₀ with Φ(y₀) = y₀, where Φ integrates one forcing
+ * cycle. Newton's method on g(y₀) = Φ(y₀) − y₀ with the exact derivative from the variational
+ * equations S' = J S (S = ∂y/∂y₀), so a body whose radiative time is 100 cycles converges in as
+ * few iterations as one that forgets its start within a cycle: orbit-after-orbit relaxation
+ * would need ~τ/P orbits, Newton needs a handful (Keller, Numerical Solution of Two Point
+ * Boundary Value Problems, 1976, ch. 1; standard).
+ *
+ * One-state problems keep a bracket (g decreases through its root, because a dissipative map
+ * has 0 < Φ' < 1) and bisect when a Newton step would leave it, so they cannot diverge.
+ */
+import { CalorbitError } from "../errors.js";
+import { integrateOdex } from "./odexIntegrator.js";
+import { integrateRadau } from "./radau.js";
+import { addWork, emptyWork, type DenseSamples, type Integrator, type OdeSystem, type SolverWork } from "./system.js";
+
+/** Above this (max |∂f/∂y| × cycle length) the explicit extrapolation gives way to Radau IIA. */
+export const STIFFNESS_THRESHOLD = 2000;
+/** ODE tolerance as a fraction of the requested one (the rest of the budget is for the shooting). */
+const ODE_TOLERANCE_SHARE = 0.05;
+/** Below this the ODE tolerance is not tightened further (double precision). */
+const FINEST_ODE_TOLERANCE = 1e-14;
+const MAX_ITERATIONS = 40;
+
+export type IntegratorName = "odex" | "radau";
+
+export interface PeriodicProblem {
+  system: OdeSystem;
+  /** Independent variable at the start of the cycle (eccentric anomaly, rad). */
+  start: number;
+  /** Length of one forcing cycle in the independent variable (2π per orbit). */
+  cycleLength: number;
+  /** First guess of the periodic start state. */
+  guess: Float64Array;
+  /** Typical magnitude of each state component (sets absolute tolerances), e.g. a temperature in K. */
+  scale: Float64Array;
+  /** Estimated max |∂f/∂y| × cycleLength: the number of relaxation times in one cycle. */
+  stiffness: number;
+}
+
+export interface PeriodicOptions {
+  relativeTolerance: number;
+  /** Dense output of the state on the converged cycle. */
+  samples?: DenseSamples;
+}
+
+export interface PeriodicResult {
+  /** The periodic start state y₀. */
+  start: Float64Array;
+  /** Newton iterations (each one integrates one cycle). */
+  iterations: number;
+  /** Cycles integrated in all (iterations plus any extra pass for dense output). */
+  cyclesIntegrated: number;
+  /** max_i |Φ(y₀) − y₀|_i / scale_i on the last cycle integrated. */
+  periodicityResidual: number;
+  /** Largest eigen-like contraction: the diagonal of ∂Φ/∂y₀ (1 = no memory loss). */
+  monodromyDiagonal: Float64Array;
+  integrator: IntegratorName;
+  odeRelativeTolerance: number;
+  work: SolverWork;
+}
+
+/** Adds the variational equations S' = J S to a system: state [y (n), S (n×n, row-major)]. */
+class WithSensitivity implements OdeSystem {
+  readonly dimension: number;
+  private readonly jac: Float64Array;
+  constructor(private readonly base: OdeSystem) {
+    const n = base.dimension;
+    this.dimension = n + n * n;
+    this.jac = new Float64Array(n * n);
+  }
+  derivative(x: number, y: ArrayLike<number>, out: Float64Array): void {
+    const n = this.base.dimension;
+    this.base.derivative(x, y, out);
+    this.base.jacobian(x, y, this.jac);
+    for (let r = 0; r < n; r++) {
+      for (let c = 0; c < n; c++) {
+        let s = 0;
+        for (let k = 0; k < n; k++) s += this.jac[r * n + k]! * y[n + k * n + c]!;
+        out[n + r * n + c] = s;
+      }
+    }
+  }
+  /** Block-diagonal approximation (J on every block): ROS2 is a W-method, so order is kept. */
+  jacobian(x: number, y: ArrayLike<number>, out: Float64Array): void {
+    const n = this.base.dimension;
+    const m = this.dimension;
+    out.fill(0);
+    this.base.jacobian(x, y, this.jac);
+    for (let r = 0; r < n; r++) for (let c = 0; c < n; c++) out[r * m + c] = this.jac[r * n + c]!;
+    for (let block = 0; block < n; block++) {
+      // Sensitivity column `block` occupies entries n + k*n + block for k = 0..n−1.
+      for (let r = 0; r < n; r++) {
+        for (let c = 0; c < n; c++) out[(n + r * n + block) * m + (n + c * n + block)] = this.jac[r * n + c]!;
+      }
+    }
+  }
+}
+
+export function chooseIntegrator(stiffness: number): IntegratorName {
+  return stiffness > STIFFNESS_THRESHOLD ? "radau" : "odex";
+}
+
+function integratorFor(name: IntegratorName): Integrator {
+  return name === "radau" ? integrateRadau : integrateOdex;
+}
+
+/** Solves n×n M x = b (Gaussian elimination with partial pivoting; n is 1 or 2 in practice). */
+function solveSmall(n: number, m: Float64Array, b: Float64Array): Float64Array {
+  const a = Float64Array.from(m);
+  const x = Float64Array.from(b);
+  for (let col = 0; col < n; col++) {
+    let best = col;
+    for (let r = col + 1; r < n; r++) if (Math.abs(a[r * n + col]!) > Math.abs(a[best * n + col]!)) best = r;
+    if (a[best * n + col] === 0) throw new CalorbitError("PERIODIC_NO_CONVERGENCE", "singular shooting Jacobian");
+    for (let c = 0; c < n; c++) [a[col * n + c], a[best * n + c]] = [a[best * n + c]!, a[col * n + c]!];
+    [x[col], x[best]] = [x[best]!, x[col]!];
+    for (let r = col + 1; r < n; r++) {
+      const f = a[r * n + col]! / a[col * n + col]!;
+      for (let c = col; c < n; c++) a[r * n + c]! -= f * a[col * n + c]!;
+      x[r]! -= f * x[col]!;
+    }
+  }
+  for (let r = n - 1; r >= 0; r--) {
+    for (let c = r + 1; c < n; c++) x[r]! -= a[r * n + c]! * x[c]!;
+    x[r]! /= a[r * n + r]!;
+  }
+  return x;
+}
+
+/**
+ * Integrates one cycle from `start`, with or without sensitivities, returning the end state.
+ * Exported for the transient mode, which integrates cycles without shooting.
+ */
+export function integrateCycle(
+  system: OdeSystem,
+  integrator: IntegratorName,
+  from: number,
+  to: number,
+  y: Float64Array,
+  relativeTolerance: number,
+  scale: Float64Array,
+  samples?: DenseSamples,
+): SolverWork {
+  const n = system.dimension;
+  const atol = new Float64Array(n);
+  for (let i = 0; i < n; i++) atol[i] = relativeTolerance * (scale[i] ?? 1);
+  return integratorFor(integrator)(system, from, y, to, {
+    relativeTolerance,
+    absoluteTolerance: atol,
+    ...(samples ? { samples } : {}),
+  });
+}
+
+export function solvePeriodic(problem: PeriodicProblem, options: PeriodicOptions): PeriodicResult {
+  const base = problem.system;
+  const n = base.dimension;
+  const augmented = new WithSensitivity(base);
+  const m = augmented.dimension;
+  const integrator = chooseIntegrator(problem.stiffness);
+  const rtol = options.relativeTolerance;
+  const scale = new Float64Array(m);
+  for (let i = 0; i < m; i++) scale[i] = i < n ? problem.scale[i]! : 1;
+
+  const y0 = Float64Array.from(problem.guess);
+  const y = new Float64Array(m);
+  const g = new Float64Array(n);
+  const jacobianOfG = new Float64Array(n * n);
+  const work = emptyWork();
+  const monodromy = new Float64Array(n).fill(1);
+  let odeTol = Math.max(FINEST_ODE_TOLERANCE, ODE_TOLERANCE_SHARE * rtol);
+  let bracketLow = -Infinity; // n = 1: largest y₀ known with g > 0
+  let bracketHigh = Infinity; // n = 1: smallest y₀ known with g < 0
+  let cycles = 0;
+  let lastResidual = Infinity;
+  let previousStepSize = Infinity;
+
+  for (let iteration = 1; iteration <= MAX_ITERATIONS; iteration++) {
+    y.fill(0);
+    for (let i = 0; i < n; i++) {
+      y[i] = y0[i]!;
+      y[n + i * n + i] = 1;
+    }
+    // Sample on the pass that is likely to be the last: after a small Newton step.
+    const sampleThisPass = options.samples !== undefined && previousStepSize <= Math.sqrt(rtol);
+    addWork(
+      work,
+      integrateCycle(
+        augmented,
+        integrator,
+        problem.start,
+        problem.start + problem.cycleLength,
+        y,
+        odeTol,
+        scale,
+        sampleThisPass ? options.samples : undefined,
+      ),
+    );
+    cycles++;
+    let residual = 0;
+    let converged = true;
+    let minContraction = 1;
+    for (let i = 0; i < n; i++) {
+      g[i] = y[i]! - y0[i]!;
+      for (let c = 0; c < n; c++) jacobianOfG[i * n + c] = y[n + i * n + c]! - (i === c ? 1 : 0);
+      monodromy[i] = y[n + i * n + i]!;
+      minContraction = Math.min(minContraction, Math.max(1 - monodromy[i]!, 0));
+    }
+    // The start state's error is g / (1 − Φ'): demand |g| ≤ rtol·scale·(1 − Φ') so y₀ meets rtol.
+    const memory = Math.max(minContraction, 1e-300);
+    for (let i = 0; i < n; i++) {
+      const r = Math.abs(g[i]!) / problem.scale[i]!;
+      residual = Math.max(residual, r);
+      if (r > 0.5 * rtol * Math.min(1, memory)) converged = false;
+    }
+    lastResidual = residual;
+    // A slow-memory body needs a tighter ODE tolerance to resolve g at all; tighten once known.
+    const neededOdeTol = Math.max(FINEST_ODE_TOLERANCE, ODE_TOLERANCE_SHARE * rtol * Math.min(1, memory));
+    const toleranceWasLoose = neededOdeTol < odeTol * 0.5;
+    if (converged && !toleranceWasLoose) {
+      if (options.samples && !sampleThisPass) {
+        // Converged before we sampled: one more pass for the dense output, at the same start.
+        y.fill(0);
+        for (let i = 0; i < n; i++) {
+          y[i] = y0[i]!;
+          y[n + i * n + i] = 1;
+        }
+        addWork(
+          work,
+          integrateCycle(augmented, integrator, problem.start, problem.start + problem.cycleLength, y, odeTol, scale, options.samples),
+        );
+        cycles++;
+      }
+      return {
+        start: y0,
+        iterations: iteration,
+        cyclesIntegrated: cycles,
+        periodicityResidual: residual,
+        monodromyDiagonal: monodromy,
+        integrator,
+        odeRelativeTolerance: odeTol,
+        work,
+      };
+    }
+    odeTol = Math.min(odeTol, neededOdeTol);
+
+    const step = solveSmall(n, jacobianOfG, g);
+    let stepSize = 0;
+    for (let i = 0; i < n; i++) {
+      let next = y0[i]! - step[i]!;
+      if (n === 1) {
+        if (g[0]! > 0) bracketLow = Math.max(bracketLow, y0[0]!);
+        else bracketHigh = Math.min(bracketHigh, y0[0]!);
+        if (!(next > bracketLow && next < bracketHigh)) {
+          next =
+            Number.isFinite(bracketLow) && Number.isFinite(bracketHigh)
+              ? 0.5 * (bracketLow + bracketHigh)
+              : g[0]! > 0
+                ? y0[0]! * 2
+                : y0[0]! * 0.5;
+        }
+      }
+      // Temperatures stay positive: never step below a tenth of the current value.
+      next = Math.max(next, 0.1 * y0[i]!);
+      stepSize = Math.max(stepSize, Math.abs(next - y0[i]!) / problem.scale[i]!);
+      y0[i] = next;
+    }
+    previousStepSize = stepSize;
+  }
+  throw new CalorbitError(
+    "PERIODIC_NO_CONVERGENCE",
+    `no periodic steady state after ${MAX_ITERATIONS} cycles (last relative residual ${lastResidual.toExponential(2)})`,
+  );
+}

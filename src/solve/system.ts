@@ -1,0 +1,62 @@
+/**
+ * The contract between a physical model and the integrators: a first-order system y' = f(x, y)
+ * of fixed dimension, with its Jacobian. Implementations must not allocate in `derivative` or
+ * `jacobian`: they run millions of times in a sweep.
+ */
+export interface OdeSystem {
+  readonly dimension: number;
+  /** Writes f(x, y) into `out` (length ≥ dimension). */
+  derivative(x: number, y: ArrayLike<number>, out: Float64Array): void;
+  /** Writes ∂f/∂y at (x, y) into `out`, row-major n×n. */
+  jacobian(x: number, y: ArrayLike<number>, out: Float64Array): void;
+}
+
+/** Work done by an integrator, summed over calls. */
+export interface SolverWork {
+  /** Accepted steps. */
+  steps: number;
+  /** Rejected steps. */
+  rejected: number;
+  /** Right-hand-side evaluations. */
+  evaluations: number;
+}
+
+export function emptyWork(): SolverWork {
+  return { steps: 0, rejected: 0, evaluations: 0 };
+}
+
+export function addWork(into: SolverWork, more: SolverWork): void {
+  into.steps += more.steps;
+  into.rejected += more.rejected;
+  into.evaluations += more.evaluations;
+}
+
+/**
+ * Where dense output goes: the solution at ascending abscissae `xs` (inside the integration
+ * interval) is written to `ys`, component-major: ys[k * dimension + i] = y_i(xs[k]).
+ * Only the first `components` components are stored (dimension of the stored block).
+ */
+export interface DenseSamples {
+  xs: Float64Array;
+  ys: Float64Array;
+  components: number;
+}
+
+export interface IntegrateOptions {
+  relativeTolerance: number;
+  /** Per-component absolute tolerance. */
+  absoluteTolerance: Float64Array;
+  /** Optional dense output. */
+  samples?: DenseSamples;
+  /** Hard cap on accepted steps; exceeding it raises INTEGRATION_FAILED. */
+  maxSteps?: number;
+}
+
+/** An integrator advances y from x0 to x1 in place and reports its work. */
+export type Integrator = (
+  system: OdeSystem,
+  x0: number,
+  y: Float64Array,
+  x1: number,
+  options: IntegrateOptions,
+) => SolverWork;
