@@ -44,7 +44,10 @@ export function hermiteExtremum(xs: Float64Array, ys: Float64Array, ds: Float64A
   let best = 0;
   for (let k = 1; k < ys.length; k++) if (sign * ys[k]! > sign * ys[best]!) best = k;
   let result: Extremum = { x: xs[best]!, value: ys[best]! };
-  for (const k of [best - 1, best]) {
+  // On a cycle the last sample repeats the first: a peak at either end may lie past the other end.
+  const last = ys.length - 1;
+  const intervals = best === 0 || best === last ? [0, last - 1] : [best - 1, best];
+  for (const k of intervals) {
     if (k < 0 || k + 1 >= ys.length) continue;
     const xa = xs[k]!;
     const xb = xs[k + 1]!;
@@ -85,8 +88,20 @@ export function hermiteExtremum(xs: Float64Array, ys: Float64Array, ds: Float64A
 export function refinedExtremum(xs: Float64Array, ys: Float64Array, f: (x: number) => number, sign: 1 | -1): Extremum {
   let best = 0;
   for (let k = 1; k < ys.length; k++) if (sign * ys[k]! > sign * ys[best]!) best = k;
-  let lo = xs[Math.max(0, best - 1)]!;
-  let hi = xs[Math.min(xs.length - 1, best + 1)]!;
+  const last = ys.length - 1;
+  if (best === 0 || best === last) {
+    // On a cycle the ends are one point: search the first and the last interval.
+    const a = golden(xs[0]!, xs[1]!, f, sign);
+    const b = golden(xs[last - 1]!, xs[last]!, f, sign);
+    const winner = sign * a.value >= sign * b.value ? a : b;
+    return sign * winner.value > sign * ys[best]! ? winner : { x: xs[best]!, value: ys[best]! };
+  }
+  const inner = golden(xs[best - 1]!, xs[best + 1]!, f, sign);
+  return sign * inner.value > sign * ys[best]! ? inner : { x: xs[best]!, value: ys[best]! };
+}
+
+/** Golden-section search for the extremum of f on [lo, hi]. */
+function golden(lo: number, hi: number, f: (x: number) => number, sign: 1 | -1): Extremum {
   const ratio = (Math.sqrt(5) - 1) / 2;
   let x1 = hi - ratio * (hi - lo);
   let x2 = lo + ratio * (hi - lo);
@@ -108,8 +123,7 @@ export function refinedExtremum(xs: Float64Array, ys: Float64Array, f: (x: numbe
     }
   }
   const x = 0.5 * (lo + hi);
-  const v = f(x);
-  return sign * v > sign * ys[best]! ? { x, value: v } : { x: xs[best]!, value: ys[best]! };
+  return { x, value: f(x) };
 }
 
 /**

@@ -45,6 +45,8 @@ class Workspace {
   readonly fMid: Float64Array;
   readonly ySmall: Float64Array;
   readonly fEnd: Float64Array;
+  /** Scratch for one stage's derivative. */
+  readonly fStage: Float64Array;
   evaluations = 0;
   constructor(readonly n: number) {
     const m = 3 * n;
@@ -60,6 +62,7 @@ class Workspace {
     this.fMid = new Float64Array(n);
     this.ySmall = new Float64Array(n);
     this.fEnd = new Float64Array(n);
+    this.fStage = new Float64Array(n);
   }
 }
 
@@ -142,9 +145,9 @@ function radauStep(
   for (let iter = 0; iter < MAX_NEWTON; iter++) {
     for (let s = 0; s < 3; s++) {
       for (let i = 0; i < n; i++) stage[i] = y[i]! + z[s * n + i]!;
-      system.derivative(x + C[s]! * h, stage, w.fMid);
+      system.derivative(x + C[s]! * h, stage, w.fStage);
       w.evaluations++;
-      for (let i = 0; i < n; i++) f[s * n + i] = w.fMid[i]!;
+      for (let i = 0; i < n; i++) f[s * n + i] = w.fStage[i]!;
     }
     for (let s = 0; s < 3; s++) {
       for (let i = 0; i < n; i++) {

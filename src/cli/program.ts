@@ -1,0 +1,235 @@
+/**
+ * The calorbit command line. Parses flags, loads the scenario, calls the engine, prints or
+ * writes the report. Bad input: one line per problem on stderr, exit status 2, no stack trace.
+ */
+import { Command, CommanderError, Option } from "commander";
+import { CalorbitError, formatProblem } from "../errors.js";
+import { equilibriumTemperature, GEOMETRY_FACTOR, LUMPED_REGIMES, stellarFlux, wienPeakWavelengthM, type LumpedRegime } from "../physics/flux.js";
+import { luminosityFromRadiusTemperature } from "../physics/star.js";
+import { radiativeTimeSeconds } from "../physics/energyBalance.js";
+import { resultDocument } from "../report/document.js";
+import { seriesCsv } from "../report/csv.js";
+import { describeScenario, summaryText } from "../report/text.js";
+import { duration, sig } from "../report/format.js";
+import { scenarioJsonSchema } from "../scenario/schema.js";
+import { parseQuantity, type QuantityKind } from "../scenario/units.js";
+import { DEFAULT_RELATIVE_TOLERANCE, DEFAULT_SAMPLES, simulate, type SimulateOptions } from "../simulate.js";
+import { VERSION } from "../version.js";
+import { loadScenario, writeFileAtomic } from "./io.js";
+
+const EXIT_BAD_INPUT = 2;
+const EXIT_FAILURE = 1;
+
+function usage(path: string, given: string, allowed: string): CalorbitError {
+  return new CalorbitError("USAGE", `${path}: given ${given}; allowed: ${allowed}`, [{ path, given, allowed }]);
+}
+
+function integerFlag(name: string, raw: string, min: number, max: number): number {
+  const v = Number(raw);
+  if (!Number.isInteger(v) || v < min || v > max) throw usage(name, JSON.stringify(raw), `an integer from ${min} to ${max}`);
+  return v;
+}
+
+function quantityFlag(name: string, kind: QuantityKind, raw: string): number {
+  const parsed = parseQuantity(kind, /^[+-]?[\d.]+([eE][+-]?\d+)?$/.test(raw.trim()) ? Number(raw) : raw);
+  if (!parsed.ok) throw usage(name, JSON.stringify(raw), parsed.allowed);
+  return parsed.valueSI;
+}
+
+function toleranceFlag(raw: string): number {
+  const v = Number(raw);
+  if (!Number.isFinite(v) || v < 1e-13 || v > 1e-2) throw usage("--tolerance", JSON.stringify(raw), "a number from 1e-13 to 1e-2");
+  return v;
+}
+
+interface RunFlags {
+  json?: boolean;
+  series?: boolean;
+  csv?: string;
+  samples: string;
+  from?: string;
+  orbits?: string;
+  tolerance: string;
+}
+
+function runCommand(scenarioPath: string | undefined, flags: RunFlags): void {
+  const options: SimulateOptions = {
+    relativeTolerance: toleranceFlag(flags.tolerance),
+    samples: integerFlag("--samples", flags.samples, 2, 10_000_000),
+  };
+  if (flags.from !== undefined || flags.orbits !== undefined) {
+    if (flags.from === undefined) throw usage("--from", "missing", "a start temperature with --orbits, e.g. --from 150K");
+    options.transient = {
+      startK: quantityFlag("--from", "temperature", flags.from),
+      orbits: flags.orbits === undefined ? 1 : integerFlag("--orbits", flags.orbits, 1, 100_000),
+    };
+    if (!(options.transient.startK > 0)) throw usage("--from", JSON.stringify(flags.from), "a temperature > 0 K");
+  }
+  const { resolved } = loadScenario(scenarioPath);
+  const sim = simulate(resolved.thermal, options);
+  if (flags.csv !== undefined) writeFileAtomic(flags.csv, seriesCsv(resolved, sim));
+  if (flags.json) {
+    process.stdout.write(JSON.stringify(resultDocument(resolved, sim, flags.series === true), null, 2) + "\n");
+  } else {
+    process.stdout.write(summaryText(resolved, sim));
+    if (flags.csv !== undefined) process.stdout.write(`\nseries written to ${flags.csv} (${sim.series.timeSeconds.length} rows)\n`);
+  }
+}
+
+function checkCommand(scenarioPath: string): void {
+  const { resolved, file } = loadScenario(scenarioPath);
+  const { thermal } = resolved;
+  const q = thermal.surface.internalFluxWPerM2;
+  const meanAbsorbed =
+    (GEOMETRY_FACTOR[thermal.regime] * (1 - thermal.surface.albedo) * stellarFlux(thermal.star.luminosityW, thermal.orbit.semiMajorAxisM)) /
+      Math.sqrt(1 - thermal.orbit.eccentricity ** 2) +
+    q;
+  const tMean = equilibriumTemperature(meanAbsorbed, thermal.surface.emissivity);
+  const tau = radiativeTimeSeconds(thermal.surface.heatCapacityJPerM2K, thermal.surface.emissivity, tMean);
+  const lines = [
+    `${file}: valid scenario "${thermal.name}"`,
+    ...describeScenario(resolved),
+    `  derived   period ${duration(thermal.orbit.periodSeconds)} (${sig(thermal.orbit.periodSeconds, 6)} s), equilibrium of the orbit-mean flux ${tMean.toFixed(2)} K,`,
+    `            radiative time τ = ${duration(tau)}, τ/P = ${sig(tau / thermal.orbit.periodSeconds)}`,
+  ];
+  process.stdout.write(lines.join("\n") + "\n");
+}
+
+interface EquilibriumFlags {
+  luminosity?: string;
+  radius?: string;
+  temperature?: string;
+  distance: string;
+  albedo: string;
+  emissivity: string;
+  regime: LumpedRegime;
+  internalFlux: string;
+}
+
+function equilibriumCommand(flags: EquilibriumFlags): void {
+  let luminosityW: number;
+  if (flags.luminosity !== undefined) {
+    if (flags.radius !== undefined || flags.temperature !== undefined) {
+      throw usage("--luminosity", JSON.stringify(flags.luminosity), "either --luminosity or --radius with --temperature, not both");
+    }
+    luminosityW = quantityFlag("--luminosity", "luminosity", flags.luminosity);
+  } else if (flags.radius !== undefined && flags.temperature !== undefined) {
+    luminosityW = luminosityFromRadiusTemperature(
+      quantityFlag("--radius", "length", flags.radius),
+      quantityFlag("--temperature", "temperature", flags.temperature),
+    );
+  } else {
+    throw usage("--luminosity", "missing", "a luminosity (e.g. 0.8Lsun), or --radius and --temperature");
+  }
+  if (!(luminosityW > 0)) throw usage("--luminosity", String(luminosityW), "a luminosity > 0 W");
+  const distanceM = quantityFlag("--distance", "length", flags.distance);
+  if (!(distanceM > 0)) throw usage("--distance", JSON.stringify(flags.distance), "a distance > 0 m");
+  const albedo = Number(flags.albedo);
+  if (!(albedo >= 0 && albedo <= 1)) throw usage("--albedo", JSON.stringify(flags.albedo), "a number with 0 ≤ A ≤ 1");
+  const emissivity = Number(flags.emissivity);
+  if (!(emissivity > 0 && emissivity <= 1)) throw usage("--emissivity", JSON.stringify(flags.emissivity), "a number with 0 < ε ≤ 1");
+  const q = quantityFlag("--internal-flux", "flux", flags.internalFlux);
+  if (!(q >= 0)) throw usage("--internal-flux", JSON.stringify(flags.internalFlux), "a flux ≥ 0 W/m2");
+  const s = stellarFlux(luminosityW, distanceM);
+  const absorbed = GEOMETRY_FACTOR[flags.regime] * (1 - albedo) * s + q;
+  const t = equilibriumTemperature(absorbed, emissivity);
+  process.stdout.write(
+    [
+      `stellar flux        ${s.toFixed(3)} W m⁻²`,
+      `absorbed (${flags.regime}, f = ${GEOMETRY_FACTOR[flags.regime]})   ${absorbed.toFixed(3)} W m⁻²`,
+      `equilibrium         ${t.toFixed(2)} K`,
+      `Wien peak           ${sig(wienPeakWavelengthM(t) * 1e6, 4)} µm`,
+    ].join("\n") + "\n",
+  );
+}
+
+export function buildProgram(): Command {
+  const program = new Command();
+  program
+    .name("calorbit")
+    .description("Temperature histories of bodies on eccentric orbits, against the instantaneous equilibrium.")
+    .version(VERSION)
+    .showHelpAfterError("(run with --help for usage)")
+    .configureOutput({ writeErr: (s) => void process.stderr.write(s) })
+    .exitOverride();
+
+  program
+    .command("run")
+    .description("integrate a scenario to its periodic steady state (or a transient) and summarise it")
+    .argument("[scenario]", "scenario file (YAML or JSON); the bundled demo when omitted")
+    .option("--json", "print one JSON document (summary, solver work, resolved scenario in SI units)")
+    .option("--series", "with --json: include the sampled series as columnar arrays")
+    .option("--csv <file>", "write the series (time, phase, true anomaly, distance, flux, T, T_eq) as CSV")
+    .option("--samples <n>", "points in the series, uniform in time", String(DEFAULT_SAMPLES))
+    .option("--from <temperature>", "transient mode: start at this temperature (e.g. 150K, -20degC)")
+    .option("--orbits <n>", "transient mode: number of orbits to integrate (default 1)")
+    .option("--tolerance <x>", "relative tolerance of the temperatures", String(DEFAULT_RELATIVE_TOLERANCE))
+    .addHelpText(
+      "after",
+      `
+Examples:
+  calorbit run                                   the bundled demo
+  calorbit run scenarios/orvalle-rock.yaml --json
+  calorbit run my.yaml --csv history.csv --samples 2000
+  calorbit run my.yaml --from 150K --orbits 5    spin-up from a cold start`,
+    )
+    .action((scenario: string | undefined, flags: RunFlags) => runCommand(scenario, flags));
+
+  program
+    .command("check")
+    .description("validate a scenario and print what calorbit understood, with units, the period and τ/P")
+    .argument("<scenario>", "scenario file (YAML or JSON)")
+    .action((scenario: string) => checkCommand(scenario));
+
+  program
+    .command("schema")
+    .description("print the scenario format as JSON Schema (for editor validation and completion)")
+    .action(() => {
+      process.stdout.write(JSON.stringify(scenarioJsonSchema(), null, 2) + "\n");
+    });
+
+  program
+    .command("equilibrium")
+    .description("quick equilibrium temperature from flags, with its Wien peak")
+    .option("--luminosity <L>", "stellar luminosity (e.g. 0.8Lsun, 3e26W)")
+    .option("--radius <R>", "stellar radius (e.g. 0.9Rsun), with --temperature")
+    .option("--temperature <T>", "stellar effective temperature (e.g. 5300K)")
+    .requiredOption("--distance <d>", "star–body distance (e.g. 0.7au)")
+    .option("--albedo <A>", "Bond albedo", "0")
+    .option("--emissivity <e>", "emissivity", "1")
+    .option("--internal-flux <q>", "internal heat flux (e.g. 0.1W/m2)", "0")
+    .addOption(new Option("--regime <name>", "heat-sharing regime").choices(LUMPED_REGIMES).default("global"))
+    .addHelpText("after", `\nExample:\n  calorbit equilibrium --luminosity 1Lsun --distance 1au --albedo 0.3`)
+    .action((flags: EquilibriumFlags) => equilibriumCommand(flags));
+  return program;
+}
+
+/** Runs the CLI on an argv (node, script, ...args); returns the exit status. */
+export function main(argv: string[]): number {
+  const program = buildProgram();
+  try {
+    program.parse(argv);
+    return 0;
+  } catch (err) {
+    return reportError(err);
+  }
+}
+
+function reportError(err: unknown): number {
+  if (err instanceof CommanderError) {
+    // Help and version are not errors; commander has already printed its message otherwise.
+    return err.code === "commander.helpDisplayed" || err.code === "commander.version" || err.exitCode === 0 ? 0 : EXIT_BAD_INPUT;
+  }
+  if (err instanceof CalorbitError) {
+    if (err.problems.length > 0) {
+      for (const p of err.problems) process.stderr.write(`calorbit: ${formatProblem(p)}\n`);
+    } else {
+      process.stderr.write(`calorbit: ${err.message}\n`);
+    }
+    const badInput = err.code === "SCENARIO_INVALID" || err.code === "SCENARIO_UNREADABLE" || err.code === "USAGE" || err.code === "INVALID_ARGUMENT";
+    return badInput ? EXIT_BAD_INPUT : EXIT_FAILURE;
+  }
+  process.stderr.write(`calorbit: internal error: ${err instanceof Error ? err.message : String(err)}\n`);
+  return EXIT_FAILURE;
+}
+

@@ -1,0 +1,69 @@
+/**
+ * The machine-readable result: one JSON document that says how it was made (calorbit version,
+ * the resolved scenario in SI units) and what came out (summary, solver work, optional series).
+ */
+import type { ResolvedScenario } from "../scenario/resolve.js";
+import type { Simulation } from "../simulate.js";
+import { VERSION } from "../version.js";
+
+/** The resolved scenario in SI units, with the unit in every key. */
+export function resolvedScenarioRecord(resolved: ResolvedScenario) {
+  const { thermal } = resolved;
+  return {
+    name: thermal.name,
+    star: {
+      luminosityW: thermal.star.luminosityW,
+      massKg: Number.isFinite(thermal.star.massKg) ? thermal.star.massKg : null,
+      radiusM: thermal.star.radiusM ?? null,
+      effectiveTemperatureK: thermal.star.effectiveTemperatureK ?? null,
+    },
+    orbit: {
+      semiMajorAxisM: thermal.orbit.semiMajorAxisM,
+      eccentricity: thermal.orbit.eccentricity,
+      periodSeconds: thermal.orbit.periodSeconds,
+      periodOrigin: resolved.periodOrigin,
+      meanAnomalyAtStartRad: thermal.orbit.meanAnomalyAtStartRad,
+    },
+    body: {
+      albedo: thermal.surface.albedo,
+      emissivity: thermal.surface.emissivity,
+      heatCapacityJPerM2K: thermal.surface.heatCapacityJPerM2K,
+      heatCapacityOrigin: resolved.heatCapacityOrigin,
+      internalFluxWPerM2: thermal.surface.internalFluxWPerM2,
+    },
+    regime: thermal.regime,
+    thresholdsK: thermal.windowK ? [...thermal.windowK] : null,
+  };
+}
+
+export interface ResultDocument {
+  calorbit: { version: string };
+  scenario: ReturnType<typeof resolvedScenarioRecord>;
+  summary: Simulation["summary"];
+  solver: Simulation["solver"];
+  series?: Record<string, number[]>;
+}
+
+/** Builds the JSON result; `withSeries` adds the columnar series (x = time in s). */
+export function resultDocument(resolved: ResolvedScenario, sim: Simulation, withSeries: boolean): ResultDocument {
+  const doc: ResultDocument = {
+    calorbit: { version: VERSION },
+    scenario: resolvedScenarioRecord(resolved),
+    summary: sim.summary,
+    solver: sim.solver,
+  };
+  if (withSeries) {
+    const s = sim.series;
+    doc.series = {
+      timeSeconds: Array.from(s.timeSeconds),
+      meanAnomalyRad: Array.from(s.meanAnomalyRad),
+      trueAnomalyRad: Array.from(s.trueAnomalyRad),
+      distanceM: Array.from(s.distanceM),
+      stellarFluxWPerM2: Array.from(s.stellarFluxWPerM2),
+      absorbedWPerM2: Array.from(s.absorbedWPerM2),
+      temperatureK: Array.from(s.temperatureK),
+      equilibriumK: Array.from(s.equilibriumK),
+    };
+  }
+  return doc;
+}

@@ -1,0 +1,171 @@
+/**
+ * From a scenario document (parsed YAML/JSON) to a validated ThermalCase in SI units, with a
+ * FieldProblem for every bad field. Pure: the CLI reads the file, this module only judges it.
+ */
+import { parse as parseYaml, YAMLParseError } from "yaml";
+import type { z } from "zod";
+import { CalorbitError, type FieldProblem } from "../errors.js";
+import type { ThermalCase } from "../model.js";
+import { layerHeatCapacity, MATERIALS, type MaterialName } from "../physics/materials.js";
+import { keplerPeriodSeconds } from "../physics/orbit.js";
+import { luminosityFromRadiusTemperature, massParameter } from "../physics/star.js";
+import { scenarioSchema, type ParsedScenario } from "./schema.js";
+
+/** How the heat capacity was obtained, kept for the report. */
+export type HeatCapacityOrigin =
+  | { kind: "direct" }
+  | { kind: "layer"; material: MaterialName; thicknessM: number; densityKgPerM3: number; specificHeatJPerKgK: number; source: string };
+
+export interface ResolvedScenario {
+  thermal: ThermalCase;
+  heatCapacityOrigin: HeatCapacityOrigin;
+  periodOrigin: "given" | "kepler";
+  description?: string;
+}
+
+function render(value: unknown): string {
+  if (value === undefined) return "missing";
+  if (typeof value === "number") return Number.isNaN(value) ? "NaN" : String(value);
+  if (typeof value === "string") return JSON.stringify(value);
+  const json = JSON.stringify(value);
+  return json === undefined ? String(value) : json.length > 60 ? json.slice(0, 57) + "..." : json;
+}
+
+function valueAt(root: unknown, path: readonly PropertyKey[]): unknown {
+  let v: unknown = root;
+  for (const key of path) {
+    if (v === null || typeof v !== "object") return undefined;
+    v = (v as Record<PropertyKey, unknown>)[key];
+  }
+  return v;
+}
+
+function pathText(path: readonly PropertyKey[]): string {
+  return path.length === 0 ? "(scenario)" : path.map((p) => (typeof p === "number" ? `[${p}]` : String(p))).join(".").replace(/\.\[/g, "[");
+}
+
+/** One FieldProblem per zod issue, with the given value looked up in the raw document. */
+export function problemsFromZod(error: z.ZodError, raw: unknown): FieldProblem[] {
+  const problems: FieldProblem[] = [];
+  for (const issue of error.issues) {
+    if (issue.code === "unrecognized_keys") {
+      for (const key of issue.keys) {
+        problems.push({
+          path: pathText([...issue.path, key]),
+          given: render(valueAt(raw, [...issue.path, key])),
+          allowed: "no such key here (check the spelling; `calorbit schema` lists the keys)",
+        });
+      }
+      continue;
+    }
+    const given = valueAt(raw, issue.path);
+    problems.push({ path: pathText(issue.path), given: render(given), allowed: issue.message });
+  }
+  return problems;
+}
+
+/** Parses scenario text; `format` follows the file extension ("json" or "yaml"). */
+export function parseScenarioText(text: string, format: "json" | "yaml", sourceName: string): unknown {
+  try {
+    return format === "json" ? JSON.parse(text) : parseYaml(text, { prettyErrors: false });
+  } catch (err) {
+    const where = err instanceof YAMLParseError && err.linePos ? ` at line ${err.linePos[0].line}, column ${err.linePos[0].col}` : "";
+    const reason = err instanceof Error ? err.message.split("\n")[0] : String(err);
+    throw new CalorbitError("SCENARIO_UNREADABLE", `${sourceName}: not valid ${format.toUpperCase()}${where}: ${reason}`);
+  }
+}
+
+/** Validates a parsed document and resolves it to SI; throws SCENARIO_INVALID listing every problem. */
+export function resolveScenario(raw: unknown): ResolvedScenario {
+  if (raw === null || typeof raw !== "object" || Array.isArray(raw)) {
+    throw new CalorbitError("SCENARIO_INVALID", "the scenario must be a mapping of keys", [
+      { path: "(scenario)", given: render(raw), allowed: "a mapping with keys name, star, orbit, body" },
+    ]);
+  }
+  const result = scenarioSchema.safeParse(raw, { reportInput: true });
+  if (!result.success) {
+    throw new CalorbitError("SCENARIO_INVALID", "the scenario has problems", problemsFromZod(result.error, raw));
+  }
+  return fromParsed(result.data, raw);
+}
+
+function fromParsed(s: ParsedScenario, raw: unknown): ResolvedScenario {
+  const problems: FieldProblem[] = [];
+  const problem = (path: string, allowed: string) => problems.push({ path, given: render(valueAt(raw, path.split("."))), allowed });
+
+  // Star: luminosity, or radius + temperature (not both ways at once).
+  let luminosityW = NaN;
+  if (s.star.luminosity !== undefined) {
+    luminosityW = s.star.luminosity;
+    if (s.star.radius !== undefined && s.star.temperature !== undefined) {
+      problem("star.radius", "either star.luminosity or star.radius with star.temperature, not both");
+    }
+  } else if (s.star.radius !== undefined && s.star.temperature !== undefined) {
+    luminosityW = luminosityFromRadiusTemperature(s.star.radius, s.star.temperature);
+  } else {
+    problem("star.luminosity", "a luminosity, or star.radius with star.temperature");
+  }
+  if (s.star.mass === undefined && s.orbit.period === undefined) {
+    problem("star.mass", "a stellar mass (or give orbit.period)");
+  }
+
+  // Body: heat capacity given directly or from a layer, exactly one.
+  let heatCapacity = NaN;
+  let heatCapacityOrigin: HeatCapacityOrigin = { kind: "direct" };
+  if (s.body.heatCapacity !== undefined && s.body.layer !== undefined) {
+    problem("body.layer", "either body.heatCapacity or body.layer, not both");
+  } else if (s.body.heatCapacity !== undefined) {
+    heatCapacity = s.body.heatCapacity;
+  } else if (s.body.layer !== undefined) {
+    const material = s.body.layer.material as MaterialName;
+    const m = MATERIALS[material];
+    heatCapacity = layerHeatCapacity(m, s.body.layer.thickness);
+    heatCapacityOrigin = {
+      kind: "layer",
+      material,
+      thicknessM: s.body.layer.thickness,
+      densityKgPerM3: m.densityKgPerM3,
+      specificHeatJPerKgK: m.specificHeatJPerKgK,
+      source: m.source,
+    };
+  } else {
+    problem("body.heatCapacity", "an areal heat capacity, or body.layer {material, thickness}");
+  }
+  if (s.thresholds && !(s.thresholds[0] < s.thresholds[1])) {
+    problem("thresholds", "a [low, high] pair with low < high");
+  }
+  if (problems.length > 0) throw new CalorbitError("SCENARIO_INVALID", "the scenario has problems", problems);
+
+  const starMassKg = s.star.mass ?? NaN;
+  const periodSeconds =
+    s.orbit.period ?? keplerPeriodSeconds(s.orbit.semiMajorAxis, massParameter({ luminosityW, massKg: starMassKg }));
+  const thermal: ThermalCase = {
+    name: s.name,
+    star: {
+      luminosityW,
+      massKg: starMassKg,
+      ...(s.star.radius !== undefined ? { radiusM: s.star.radius } : {}),
+      ...(s.star.temperature !== undefined ? { effectiveTemperatureK: s.star.temperature } : {}),
+    },
+    orbit: {
+      semiMajorAxisM: s.orbit.semiMajorAxis,
+      eccentricity: s.orbit.eccentricity,
+      periodSeconds,
+      meanAnomalyAtStartRad: s.orbit.meanAnomalyAtStart ?? 0,
+    },
+    surface: {
+      albedo: s.body.albedo,
+      emissivity: s.body.emissivity ?? 1,
+      heatCapacityJPerM2K: heatCapacity,
+      internalFluxWPerM2: s.body.internalFlux ?? 0,
+    },
+    regime: s.regime ?? "global",
+    ...(s.thresholds ? { windowK: [s.thresholds[0], s.thresholds[1]] as const } : {}),
+  };
+  return {
+    thermal,
+    heatCapacityOrigin,
+    periodOrigin: s.orbit.period !== undefined ? "given" : "kepler",
+    ...(s.description !== undefined ? { description: s.description } : {}),
+  };
+}

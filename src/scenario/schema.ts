@@ -1,0 +1,104 @@
+/**
+ * The scenario file format, as a zod schema: the single definition from which validation,
+ * the SI conversion of dimensional values and the published JSON Schema all come.
+ * Every object is strict (unknown keys are errors) and every message says what is allowed.
+ */
+import { z } from "zod";
+import { LUMPED_REGIMES } from "../physics/flux.js";
+import { MATERIAL_NAMES } from "../physics/materials.js";
+import { parseQuantity, UNIT_TABLES, type QuantityKind } from "./units.js";
+
+/** A dimensional value: SI number or "<number> <unit>", converted to SI, with an optional range check. */
+function quantity(kind: QuantityKind, description: string, check?: { ok: (si: number) => boolean; allowed: string }) {
+  return z
+    .union([z.number(), z.string()], { error: `a number in ${UNIT_TABLES[kind].si} or a string "<number> <unit>"` })
+    .transform((raw, ctx) => {
+      const parsed = parseQuantity(kind, raw);
+      if (!parsed.ok) {
+        ctx.issues.push({ code: "custom", message: parsed.allowed, input: raw });
+        return z.NEVER;
+      }
+      if (check && !check.ok(parsed.valueSI)) {
+        ctx.issues.push({ code: "custom", message: check.allowed, input: raw });
+        return z.NEVER;
+      }
+      return parsed.valueSI;
+    })
+    .describe(`${description} (SI unit ${UNIT_TABLES[kind].si}; or a string such as "1.2 ${Object.keys(UNIT_TABLES[kind].units).at(-1)}")`);
+}
+
+const positive = (unit: string) => ({ ok: (v: number) => v > 0, allowed: `a value > 0 ${unit}` });
+const nonNegative = (unit: string) => ({ ok: (v: number) => v >= 0, allowed: `a value ≥ 0 ${unit}` });
+
+function boundedNumber(description: string, ok: (v: number) => boolean, allowed: string) {
+  return z
+    .number({ error: allowed })
+    .refine((v) => Number.isFinite(v) && ok(v), { message: allowed })
+    .describe(description);
+}
+
+export const starSchema = z
+  .strictObject({
+    name: z.string().optional().describe("Name of the star (free text)"),
+    luminosity: quantity("luminosity", "Bolometric luminosity", positive("W")).optional(),
+    radius: quantity("length", "Photospheric radius (with temperature, gives L = 4πR²σT⁴)", positive("m")).optional(),
+    temperature: quantity("temperature", "Effective temperature", positive("K")).optional(),
+    mass: quantity("mass", "Stellar mass, for the period by Kepler's third law", positive("kg")).optional(),
+  })
+  .describe("The star: luminosity, or radius and effective temperature; mass unless orbit.period is given");
+
+export const orbitSchema = z
+  .strictObject({
+    semiMajorAxis: quantity("length", "Semi-major axis", positive("m")),
+    eccentricity: boundedNumber("Eccentricity, 0 ≤ e < 1", (e) => e >= 0 && e < 1, "a number with 0 ≤ e < 1"),
+    period: quantity("time", "Orbital period; default from Kepler's third law", positive("s")).optional(),
+    meanAnomalyAtStart: quantity("angle", "Mean anomaly at t = 0; default 0 (periastron)").optional(),
+  })
+  .describe("A Keplerian orbit");
+
+export const layerSchema = z
+  .strictObject({
+    material: z.enum(MATERIAL_NAMES as [string, ...string[]], { error: `one of ${MATERIAL_NAMES.join(", ")}` }).describe("Layer material"),
+    thickness: quantity("length", "Layer thickness", positive("m")),
+  })
+  .describe("A heat-storing layer; its areal heat capacity is ρ c × thickness");
+
+export const bodySchema = z
+  .strictObject({
+    name: z.string().optional().describe("Name of the body (free text)"),
+    albedo: boundedNumber("Bond albedo, 0 ≤ A ≤ 1", (a) => a >= 0 && a <= 1, "a number with 0 ≤ A ≤ 1"),
+    emissivity: boundedNumber("Thermal emissivity, 0 < ε ≤ 1; default 1", (e) => e > 0 && e <= 1, "a number with 0 < ε ≤ 1").optional(),
+    heatCapacity: quantity("arealHeatCapacity", "Areal heat capacity C", positive("J/m2/K")).optional(),
+    layer: layerSchema.optional(),
+    internalFlux: quantity("flux", "Internal heat flux q; default 0", nonNegative("W/m2")).optional(),
+  })
+  .describe("The body's surface: albedo, emissivity, heat capacity (direct, or a layer of a material)");
+
+export const scenarioSchema = z
+  .strictObject({
+    name: z.string({ error: "a text name" }).min(1, { error: "a non-empty text name" }).describe("Scenario name"),
+    description: z.string().optional().describe("Free text"),
+    star: starSchema,
+    orbit: orbitSchema,
+    body: bodySchema,
+    regime: z
+      .enum(LUMPED_REGIMES, { error: `one of ${LUMPED_REGIMES.join(", ")}` })
+      .optional()
+      .describe("Heat-sharing regime: global (f = 1/4), dayside (1/2), substellar (1); default global"),
+    thresholds: z
+      .tuple([quantity("temperature", "Low end", positive("K")), quantity("temperature", "High end", positive("K"))], {
+        error: "a [low, high] pair of temperatures",
+      })
+      .optional()
+      .describe("Temperature window [low, high] for the time-in-range statistic"),
+  })
+  .describe("A calorbit scenario: star, orbit, body, regime");
+
+export type ParsedScenario = z.output<typeof scenarioSchema>;
+export type ScenarioInput = z.input<typeof scenarioSchema>;
+
+/** The scenario format as JSON Schema (draft 2020-12), for editors. */
+export function scenarioJsonSchema(): Record<string, unknown> {
+  const schema = z.toJSONSchema(scenarioSchema, { io: "input", unrepresentable: "any" }) as Record<string, unknown>;
+  return { ...schema, title: "calorbit scenario" };
+}

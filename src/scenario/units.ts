@@ -1,0 +1,105 @@
+/**
+ * Dimensional values at the edge: a scenario gives a number in SI base units or a string
+ * "<number> <unit>"; everything past this module is SI. One table of units per quantity kind.
+ */
+import {
+  ASTRONOMICAL_UNIT_M,
+  DAY_S,
+  JULIAN_YEAR_S,
+  SOLAR_LUMINOSITY_W,
+  SOLAR_MASS_KG,
+  SOLAR_RADIUS_M,
+  ZERO_CELSIUS_K,
+} from "../constants.js";
+
+export type QuantityKind =
+  | "length"
+  | "time"
+  | "luminosity"
+  | "mass"
+  | "temperature"
+  | "angle"
+  | "arealHeatCapacity"
+  | "flux"
+  | "heatTransferCoefficient";
+
+interface UnitTable {
+  /** SI unit, as written in messages and CSV headers. */
+  si: string;
+  /** unit spelling → (value in unit) ↦ SI value. */
+  units: Record<string, (v: number) => number>;
+}
+
+const scale = (factor: number) => (v: number) => v * factor;
+
+export const UNIT_TABLES: Readonly<Record<QuantityKind, UnitTable>> = {
+  length: {
+    si: "m",
+    units: { m: scale(1), cm: scale(0.01), mm: scale(0.001), km: scale(1e3), au: scale(ASTRONOMICAL_UNIT_M), Rsun: scale(SOLAR_RADIUS_M) },
+  },
+  time: {
+    si: "s",
+    units: { s: scale(1), min: scale(60), h: scale(3600), d: scale(DAY_S), yr: scale(JULIAN_YEAR_S) },
+  },
+  luminosity: { si: "W", units: { W: scale(1), Lsun: scale(SOLAR_LUMINOSITY_W) } },
+  mass: { si: "kg", units: { kg: scale(1), Msun: scale(SOLAR_MASS_KG) } },
+  temperature: { si: "K", units: { K: scale(1), degC: (v) => v + ZERO_CELSIUS_K } },
+  angle: { si: "rad", units: { rad: scale(1), deg: scale(Math.PI / 180) } },
+  arealHeatCapacity: {
+    si: "J/m2/K",
+    units: { "J/m2/K": scale(1), "kJ/m2/K": scale(1e3), "MJ/m2/K": scale(1e6) },
+  },
+  flux: { si: "W/m2", units: { "W/m2": scale(1), "mW/m2": scale(1e-3) } },
+  heatTransferCoefficient: { si: "W/m2/K", units: { "W/m2/K": scale(1) } },
+};
+
+/** Spellings folded to one canonical form before lookup: "J m-2 K-1", "J/(m2 K)", "J/m^2/K" → "J/m2/K". */
+function canonicalUnit(unit: string): string {
+  let u = unit.trim().replace(/\^/g, "").replace(/²/g, "2").replace(/·/g, " ");
+  // "A B-2 C-1" (space-separated with negative exponents) → "A/B2/C"
+  if (/^[A-Za-z]+(\s+[A-Za-z]+-?\d*)+$/.test(u)) {
+    const [head, ...rest] = u.split(/\s+/);
+    u = head + rest.map((p) => (/-\d+$/.test(p) ? "/" + p.replace(/-(\d+)$/, (_m, d: string) => (d === "1" ? "" : d)) : " " + p)).join("");
+  }
+  u = u.replace(/\/\(([^)]*)\)/g, (_m, inner: string) => "/" + inner.trim().split(/\s+/).join("/"));
+  const aliases: Record<string, string> = {
+    AU: "au", day: "d", days: "d", year: "yr", years: "yr", hr: "h", sec: "s", degrees: "deg", "°": "deg", "°C": "degC", C: "degC",
+    "L☉": "Lsun", "M☉": "Msun", "R☉": "Rsun",
+  };
+  return aliases[u] ?? u;
+}
+
+export interface ParsedQuantity {
+  ok: true;
+  valueSI: number;
+}
+export interface QuantityError {
+  ok: false;
+  /** What is allowed, in words (for the one-line message). */
+  allowed: string;
+}
+
+export function allowedUnits(kind: QuantityKind): string {
+  return Object.keys(UNIT_TABLES[kind].units).join(", ");
+}
+
+const NUMBER_AND_UNIT = /^\s*([+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?)\s*(.*?)\s*$/;
+
+/** Converts a number (already SI) or a "<number> <unit>" string to SI. */
+export function parseQuantity(kind: QuantityKind, raw: unknown): ParsedQuantity | QuantityError {
+  const table = UNIT_TABLES[kind];
+  const allowed = `a number in ${table.si} or a string "<number> <unit>" with unit one of ${allowedUnits(kind)}`;
+  if (typeof raw === "number") {
+    return Number.isFinite(raw) ? { ok: true, valueSI: raw } : { ok: false, allowed: `a finite number (${allowed})` };
+  }
+  if (typeof raw !== "string") return { ok: false, allowed };
+  const match = NUMBER_AND_UNIT.exec(raw);
+  if (!match) return { ok: false, allowed };
+  const value = Number(match[1]);
+  const unitText = match[2] ?? "";
+  if (unitText === "") return Number.isFinite(value) ? { ok: true, valueSI: value } : { ok: false, allowed };
+  const convert = table.units[canonicalUnit(unitText)];
+  if (!convert) return { ok: false, allowed: `unit one of ${allowedUnits(kind)} (unknown unit "${unitText}")` };
+  const valueSI = convert(value);
+  return Number.isFinite(valueSI) ? { ok: true, valueSI } : { ok: false, allowed };
+}
