@@ -7,8 +7,9 @@
  * Z = h (A ⊗ I) F(y + Z) are solved by simplified Newton with the Jacobian frozen at the step's
  * start. The local error comes from step doubling (one step of h against two of h/2; the
  * difference over 2⁵ − 1 estimates the error of the pair, Richardson), and the pair of half
- * steps is kept. Dense output is the cubic Hermite interpolant on each half step; while sampling
- * the half step is capped so that interpolation error stays far below the tolerance.
+ * steps is kept. Dense output is a quintic Hermite interpolant where h|J| < 1 and each half
+ * step's collocation polynomial where the step is stiff; while sampling, steps are also capped at
+ * a fraction of the interval so the interpolation error stays far below the tolerance.
  */
 import { CalorbitError } from "../errors.js";
 import type { DenseSamples, IntegrateOptions, Integrator, OdeSystem, SolverWork } from "./system.js";
@@ -28,8 +29,8 @@ const MIN_SHRINK = 0.2;
 const MAX_NEWTON = 10;
 /** Newton stops when the update is this fraction of the error tolerance. */
 const NEWTON_FRACTION = 0.01;
-/** While sampling, a half step is at most this fraction of the interval (Hermite error ~ (ωh)⁴/384). */
-const SAMPLING_STEP_FRACTION = 1 / 256;
+/** While sampling, a step is at most this fraction of the interval (keeps the interpolant's error small). */
+const SAMPLING_STEP_FRACTION = 1 / 128; // a half step is then 1/256 of the interval
 const DEFAULT_MAX_STEPS = 200_000;
 
 class Workspace {
@@ -47,6 +48,9 @@ class Workspace {
   readonly fEnd: Float64Array;
   /** Scratch for one stage's derivative. */
   readonly fStage: Float64Array;
+  /** Converged stage increments Z of the first and second half steps (dense output). */
+  readonly zFirst: Float64Array;
+  readonly zSecond: Float64Array;
   evaluations = 0;
   constructor(readonly n: number) {
     const m = 3 * n;
@@ -63,6 +67,8 @@ class Workspace {
     this.ySmall = new Float64Array(n);
     this.fEnd = new Float64Array(n);
     this.fStage = new Float64Array(n);
+    this.zFirst = new Float64Array(m);
+    this.zSecond = new Float64Array(m);
   }
 }
 
@@ -137,6 +143,7 @@ function radauStep(
   scale: Float64Array,
   out: Float64Array,
   fOut: Float64Array,
+  zOut?: Float64Array,
 ): boolean {
   const { n, z, f, stage, rhs } = w;
   system.jacobian(x, y, w.jac);
@@ -163,6 +170,7 @@ function radauStep(
     }
     if (update <= NEWTON_FRACTION) {
       for (let i = 0; i < n; i++) out[i] = y[i]! + z[2 * n + i]!; // stiffly accurate: y₁ = y₀ + Z₃
+      if (zOut) zOut.set(z);
       system.derivative(x + h, out, fOut);
       w.evaluations++;
       return true;
@@ -186,7 +194,7 @@ export const integrateRadau: Integrator = (
   const maxSteps = options.maxSteps ?? DEFAULT_MAX_STEPS;
   const samples = options.samples;
   const span = x1 - x0;
-  const maxStep = samples ? 2 * SAMPLING_STEP_FRACTION * span : span / 8;
+  const maxStep = samples ? SAMPLING_STEP_FRACTION * span : span / 8;
   const scale = new Float64Array(n);
   const fStart = new Float64Array(n);
   let nextSample = 0;
@@ -197,7 +205,7 @@ export const integrateRadau: Integrator = (
   let rejected = 0;
   system.derivative(x, y, fStart);
   w.evaluations++;
-  if (samples) nextSample = emitSamples(samples, nextSample, x, x, y, fStart, y, fStart);
+  if (samples) nextSample = emitStart(samples, x0, y);
 
   while (x < x1) {
     if (steps >= maxSteps) throw new CalorbitError("INTEGRATION_FAILED", `the implicit solver exceeded ${maxSteps} steps`);
@@ -207,8 +215,8 @@ export const integrateRadau: Integrator = (
     const half = 0.5 * h;
     const ok =
       radauStep(system, w, x, y, h, scale, w.yBig, w.fEnd) &&
-      radauStep(system, w, x, y, half, scale, w.yMid, w.fMid) &&
-      radauStep(system, w, x + half, w.yMid, half, scale, w.ySmall, w.fEnd);
+      radauStep(system, w, x, y, half, scale, w.yMid, w.fMid, w.zFirst) &&
+      radauStep(system, w, x + half, w.yMid, half, scale, w.ySmall, w.fEnd, w.zSecond);
     if (!ok) {
       h *= 0.5;
       rejected++;
@@ -229,8 +237,16 @@ export const integrateRadau: Integrator = (
     }
     const xEnd = last ? x1 : x + h;
     if (samples) {
-      nextSample = emitSamples(samples, nextSample, x, x + half, y, fStart, w.yMid, w.fMid);
-      nextSample = emitSamples(samples, nextSample, x + half, xEnd, w.yMid, w.fMid, w.ySmall, w.fEnd);
+      // Where h|J| is small, f carries the state's error harmlessly and the O(h⁶) Hermite form is
+      // best; where it is large (the stiff regime), only the values-based collocation form is safe.
+      let stiffness = 0;
+      for (let i = 0; i < n * n; i++) stiffness = Math.max(stiffness, Math.abs(w.jac[i]!));
+      if (h * stiffness < 1) {
+        nextSample = emitHermite(samples, nextSample, x, xEnd, y, fStart, w.yMid, w.fMid, w.ySmall, w.fEnd);
+      } else {
+        nextSample = emitCollocation(samples, nextSample, x, x + half, y, w.zFirst, n);
+        nextSample = emitCollocation(samples, nextSample, x + half, xEnd, w.yMid, w.zSecond, n);
+      }
     }
     for (let i = 0; i < n; i++) {
       y[i] = w.ySmall[i]!;
@@ -243,14 +259,79 @@ export const integrateRadau: Integrator = (
   return { steps, rejected, evaluations: w.evaluations };
 };
 
-/** Writes the cubic Hermite interpolant on [xa, xb] at every pending sample inside it. */
-function emitSamples(
+/** Lagrange basis weights of the collocation nodes 0, c₁, c₂, 1 (barycentric form). */
+const NODES = [0, C[0], C[1], 1] as const;
+const BARYCENTRIC = NODES.map((ni, i) => 1 / NODES.reduce((p, nj, j) => (j === i ? p : p * (ni - nj)), 1));
+
+/** Samples at the very start of the interval take the initial state. */
+function emitStart(samples: DenseSamples, x0: number, y: ArrayLike<number>): number {
+  let k = 0;
+  while (k < samples.xs.length && samples.xs[k]! <= x0) {
+    for (let i = 0; i < samples.components; i++) samples.ys[k * samples.components + i] = y[i]!;
+    k++;
+  }
+  return k;
+}
+
+/**
+ * Writes the collocation polynomial of one step (through y₀ at 0 and y₀ + Zᵢ at cᵢ) at every
+ * pending sample in (xa, xb]: Radau's own continuous extension (Hairer & Wanner 1996, §IV.8).
+ * It uses values only: an interpolant built on f would multiply the state's tiny error by h/τ,
+ * which is huge exactly when this integrator is chosen.
+ */
+function emitCollocation(
+  samples: DenseSamples,
+  from: number,
+  xa: number,
+  xb: number,
+  ya: ArrayLike<number>,
+  z: Float64Array,
+  n: number,
+): number {
+  const { xs, ys, components } = samples;
+  const h = xb - xa;
+  const slack = Math.abs(xb) * 1e-12;
+  let k = from;
+  while (k < xs.length && xs[k]! <= xb + slack) {
+    const base = k * components;
+    const u = (xs[k]! - xa) / h;
+    // Barycentric Lagrange interpolation on the four nodes (exact at a node).
+    let exact = -1;
+    for (let j = 0; j < 4; j++) if (u === NODES[j]) exact = j;
+    for (let i = 0; i < components; i++) {
+      const value = (j: number) => (j === 0 ? ya[i]! : ya[i]! + z[(j - 1) * n + i]!);
+      if (exact >= 0) {
+        ys[base + i] = value(exact);
+        continue;
+      }
+      let num = 0;
+      let den = 0;
+      for (let j = 0; j < 4; j++) {
+        const wj = BARYCENTRIC[j]! / (u - NODES[j]!);
+        num += wj * value(j);
+        den += wj;
+      }
+      ys[base + i] = num / den;
+    }
+    k++;
+  }
+  return k;
+}
+
+/**
+ * Writes, at every pending sample in (xa, xb], the quintic Hermite interpolant through the
+ * values and derivatives at both ends and at the midpoint (the pair of half steps supplies all
+ * three), in Newton form on the nodes 0, 0, ½, ½, 1, 1; its error is O(h⁶).
+ */
+function emitHermite(
   samples: DenseSamples,
   from: number,
   xa: number,
   xb: number,
   ya: ArrayLike<number>,
   fa: ArrayLike<number>,
+  ym: ArrayLike<number>,
+  fm: ArrayLike<number>,
   yb: ArrayLike<number>,
   fb: ArrayLike<number>,
 ): number {
@@ -260,15 +341,24 @@ function emitSamples(
   let k = from;
   while (k < xs.length && xs[k]! <= xb + slack) {
     const base = k * components;
-    if (h === 0) {
-      for (let i = 0; i < components; i++) ys[base + i] = ya[i]!;
-    } else {
-      const s = (xs[k]! - xa) / h;
-      const h00 = (1 + 2 * s) * (1 - s) * (1 - s);
-      const h10 = s * (1 - s) * (1 - s);
-      const h01 = s * s * (3 - 2 * s);
-      const h11 = s * s * (s - 1);
-      for (let i = 0; i < components; i++) ys[base + i] = h00 * ya[i]! + h10 * h * fa[i]! + h01 * yb[i]! + h11 * h * fb[i]!;
+    const u = (xs[k]! - xa) / h;
+    const uh = u - 0.5;
+    for (let i = 0; i < components; i++) {
+      const d0 = h * fa[i]!;
+      const dm = h * fm[i]!;
+      const d1 = h * fb[i]!;
+      const q0m = 2 * (ym[i]! - ya[i]!);
+      const qm1 = 2 * (yb[i]! - ym[i]!);
+      const c2 = 2 * (q0m - d0);
+      const c0mm = 2 * (dm - q0m);
+      const cmm1 = 2 * (qm1 - dm);
+      const cm11 = 2 * (d1 - qm1);
+      const c3 = 2 * (c0mm - c2);
+      const t0mm1 = cmm1 - c0mm;
+      const tmm11 = 2 * (cm11 - cmm1);
+      const c4 = t0mm1 - c3;
+      const c5 = tmm11 - t0mm1 - c4;
+      ys[base + i] = ya[i]! + u * (d0 + u * (c2 + uh * (c3 + uh * (c4 + c5 * (u - 1)))));
     }
     k++;
   }
