@@ -146,10 +146,7 @@ export function simulate(thermal: ThermalCase, options: SimulateOptions = {}): S
 
   if (!options.transient) {
     const tau = radiativeTimeSeconds(thermal.surface.heatCapacityJPerM2K, thermal.surface.emissivity, prepared.meanEquilibriumOfMeanFluxK);
-    // First guess: a slab that remembers (τ ≫ P) sits near the mean-flux equilibrium; one that
-    // forgets follows T_eq. Blend by the fraction of memory kept over one orbit.
-    const memory = Math.exp(-periodSeconds / tau);
-    const guess = memory * prepared.meanEquilibriumOfMeanFluxK + (1 - memory) * prepared.equilibriumAt(startE);
+    const guess = linearResponseGuess(prepared.equilibriumAt, orbit.eccentricity, orbit.meanAnomalyAtStartRad, tau / periodSeconds, prepared.meanEquilibriumOfMeanFluxK);
     const merged = mergeGrids(outputE, statsE);
     const result = solvePeriodic(
       {
@@ -217,6 +214,48 @@ export function simulate(thermal: ThermalCase, options: SimulateOptions = {}): S
   });
   const series = buildSeries(thermal, prepared, outputE, outputT);
   return { case: thermal, summary, series, solver };
+}
+
+/**
+ * First guess of the periodic start temperature from linear response: T_eq(M) expanded in
+ * harmonics of the mean anomaly, each passed through the first-order filter 1/(1 + i k ωτ)
+ * (standard), the mean moved from ⟨T_eq⟩ toward the mean-flux equilibrium as memory grows.
+ * Newton then has only the nonlinearity to remove: typically two or three cycles.
+ */
+function linearResponseGuess(
+  equilibriumAt: (E: number) => number,
+  eccentricity: number,
+  startMeanAnomalyRad: number,
+  tauOverPeriod: number,
+  meanFluxEquilibriumK: number,
+): number {
+  const points = 64;
+  const harmonics = 3;
+  const a = new Float64Array(harmonics + 1);
+  const b = new Float64Array(harmonics + 1);
+  for (let j = 0; j < points; j++) {
+    const E = (TWO_PI * j) / points;
+    const M = E - eccentricity * Math.sin(E);
+    const weight = (1 - eccentricity * Math.cos(E)) / points; // dM/dE over 2π, trapezoidal in E
+    const teq = equilibriumAt(E);
+    for (let k = 0; k <= harmonics; k++) {
+      a[k]! += teq * Math.cos(k * M) * weight;
+      b[k]! += teq * Math.sin(k * M) * weight;
+    }
+  }
+  const omegaTau = TWO_PI * tauOverPeriod;
+  const memory = (omegaTau * omegaTau) / (1 + omegaTau * omegaTau);
+  let t = memory * meanFluxEquilibriumK + (1 - memory) * a[0]!;
+  for (let k = 1; k <= harmonics; k++) {
+    // Re[(a − i b) e^{ikM₀} / (1 + i k ωτ)] × 2
+    const x = k * omegaTau;
+    const c = Math.cos(k * startMeanAnomalyRad);
+    const s = Math.sin(k * startMeanAnomalyRad);
+    const re = a[k]! * c + b[k]! * s;
+    const im = a[k]! * s - b[k]! * c;
+    t += (2 * (re + x * im)) / (1 + x * x);
+  }
+  return t;
 }
 
 /** Joins two ascending grids into one for a single dense pass, and splits the results back. */

@@ -67,10 +67,10 @@ export function problemsFromZod(error: z.ZodError, raw: unknown): FieldProblem[]
 /** Parses scenario text; `format` follows the file extension ("json" or "yaml"). */
 export function parseScenarioText(text: string, format: "json" | "yaml", sourceName: string): unknown {
   try {
-    return format === "json" ? JSON.parse(text) : parseYaml(text, { prettyErrors: false });
+    return format === "json" ? JSON.parse(text) : parseYaml(text, { prettyErrors: true });
   } catch (err) {
     const where = err instanceof YAMLParseError && err.linePos ? ` at line ${err.linePos[0].line}, column ${err.linePos[0].col}` : "";
-    const reason = err instanceof Error ? err.message.split("\n")[0] : String(err);
+    const reason = err instanceof Error ? (err.message.split("\n")[0] ?? "").replace(/ at line \d+, column \d+:?$/, "") : String(err);
     throw new CalorbitError("SCENARIO_UNREADABLE", `${sourceName}: not valid ${format.toUpperCase()}${where}: ${reason}`);
   }
 }

@@ -1,0 +1,60 @@
+/**
+ * calorbit's benchmark (`npm run bench`): speed targets live here, never in timed tests.
+ *  - periodic solve: one case, e = 0.5, τ ≈ P, tolerance 1e-8, summary included (no output series);
+ *    the same for τ = 100 P, which must cost at most 3× as much;
+ *  - batch: 10,000 varied cases, one core.
+ * Prints lines of the form "periodic solve: 0.31 ms per case" and "batch: 3200 cases per second".
+ */
+import { ASTRONOMICAL_UNIT_M, SOLAR_LUMINOSITY_W, SOLAR_MASS_KG, STEFAN_BOLTZMANN } from "../src/constants.js";
+import type { ThermalCase } from "../src/model.js";
+import { equilibriumTemperature, GEOMETRY_FACTOR, orbitMeanStellarFlux } from "../src/physics/flux.js";
+import { simulate } from "../src/simulate.js";
+
+const PERIOD_S = 3.15576e7;
+
+function benchCase(e: number, tauOverPeriod: number, albedo = 0.3, emissivity = 0.95): ThermalCase {
+  const meanFlux = GEOMETRY_FACTOR.global * (1 - albedo) * orbitMeanStellarFlux(SOLAR_LUMINOSITY_W, ASTRONOMICAL_UNIT_M, e);
+  const t = equilibriumTemperature(meanFlux, emissivity);
+  const heatCapacity = tauOverPeriod * PERIOD_S * 4 * emissivity * STEFAN_BOLTZMANN * t ** 3;
+  return {
+    name: "bench",
+    star: { luminosityW: SOLAR_LUMINOSITY_W, massKg: SOLAR_MASS_KG },
+    orbit: { semiMajorAxisM: ASTRONOMICAL_UNIT_M, eccentricity: e, periodSeconds: PERIOD_S, meanAnomalyAtStartRad: 0 },
+    surface: { albedo, emissivity, heatCapacityJPerM2K: heatCapacity, internalFluxWPerM2: 0 },
+    regime: "global",
+  };
+}
+
+function medianMs(run: () => void, repeats: number): number {
+  for (let i = 0; i < 50; i++) run(); // warm the JIT
+  const times: number[] = [];
+  for (let i = 0; i < repeats; i++) {
+    const t0 = performance.now();
+    run();
+    times.push(performance.now() - t0);
+  }
+  times.sort((a, b) => a - b);
+  return times[Math.floor(times.length / 2)]!;
+}
+
+const options = { relativeTolerance: 1e-8, samples: 0 };
+const tauP = benchCase(0.5, 1);
+const tau100P = benchCase(0.5, 100);
+const single = medianMs(() => simulate(tauP, options), 400);
+const slow = medianMs(() => simulate(tau100P, options), 400);
+console.log(`periodic solve: ${single.toFixed(3)} ms per case (e = 0.5, tau = P, tolerance 1e-8; target <= 0.5 ms)`);
+console.log(`periodic solve tau = 100 P: ${slow.toFixed(3)} ms per case (${(slow / single).toFixed(2)}x tau = P; target <= 3x)`);
+
+// A batch of 10,000 cases varied over e ∈ [0, 0.9], log τ/P ∈ [-1, 2], A ∈ [0, 0.6], ε ∈ [0.7, 1].
+const cases: ThermalCase[] = [];
+let seed = 12345;
+const random = () => ((seed = (seed * 1103515245 + 12345) % 2147483648) / 2147483648);
+for (let i = 0; i < 10_000; i++) {
+  cases.push(benchCase(0.9 * random(), 10 ** (3 * random() - 1), 0.6 * random(), 0.7 + 0.3 * random()));
+}
+for (let i = 0; i < 200; i++) simulate(cases[i]!, options);
+const t0 = performance.now();
+let worstResidual = 0;
+for (const c of cases) worstResidual = Math.max(worstResidual, Math.abs(simulate(c, options).summary.energyBalanceResidual));
+const seconds = (performance.now() - t0) / 1000;
+console.log(`batch: ${Math.round(cases.length / seconds)} cases per second (10,000 varied cases, one core; worst energy residual ${worstResidual.toExponential(1)})`);
