@@ -1,0 +1,25 @@
+/**
+ * calorbit's library entry point: the engine without the CLI. Nothing exported here touches the
+ * file system or the process, so the same modules run in a browser.
+ */
+export * from "./constants.js";
+export { CalorbitError, formatProblem, type ErrorCode, type FieldProblem } from "./errors.js";
+export type { ThermalCase, Regime } from "./model.js";
+export * from "./physics/kepler.js";
+export * from "./physics/orbit.js";
+export * from "./physics/star.js";
+export * from "./physics/flux.js";
+export * from "./physics/forcing.js";
+export * from "./physics/materials.js";
+export * from "./physics/energyBalance.js";
+export { solvePeriodic, integrateCycle, type PeriodicProblem, type PeriodicResult, type IntegratorName } from "./solve/periodic.js";
+export type { OdeSystem, SolverWork } from "./solve/system.js";
+export { simulate, DEFAULT_RELATIVE_TOLERANCE, DEFAULT_SAMPLES, type Simulation, type Series, type SimulateOptions, type SolverReport } from "./simulate.js";
+export type { CycleSummary, TemperatureStats } from "./analysis/summarise.js";
+export { resolveScenario, parseScenarioText, type ResolvedScenario } from "./scenario/resolve.js";
+export { scenarioJsonSchema, scenarioSchema } from "./scenario/schema.js";
+export { parseQuantity, UNIT_TABLES, type QuantityKind } from "./scenario/units.js";
+export { resultDocument } from "./report/document.js";
+export { seriesCsv } from "./report/csv.js";
+export { summaryText, CAUTION } from "./report/text.js";
+export { VERSION } from "./version.js";
