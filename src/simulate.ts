@@ -1,44 +1,43 @@
 /**
- * From a thermal case to a temperature history and its summary: builds the forcing and the
- * energy balance, finds the periodic steady state (or integrates a transient), samples the
- * converged cycle and reduces it to the summary numbers. Pure computation: no I/O.
+ * From a thermal case to a temperature history and its summary: builds the model, finds the
+ * periodic steady state (or integrates a transient), samples the converged cycle and reduces it
+ * to the summary numbers. Pure computation: no I/O.
  */
 import { cycleSummary, type CycleSummary } from "./analysis/summarise.js";
-import { STEFAN_BOLTZMANN } from "./constants.js";
+import { timeMean } from "./analysis/cycleStatistics.js";
 import { CalorbitError, requireNumber } from "./errors.js";
-import { equilibriumTemperature, stellarFlux } from "./physics/flux.js";
-import { lumpedForcing, type Forcing } from "./physics/forcing.js";
-import { LumpedBalance, radiativeTimeSeconds } from "./physics/energyBalance.js";
-import { eccentricAnomaly, trueAnomalyFromEccentric } from "./physics/kepler.js";
-import { checkOrbit, distanceFromEccentric, meanMotion, timeAtEccentric } from "./physics/orbit.js";
 import type { ThermalCase } from "./model.js";
+import { stellarFlux } from "./physics/flux.js";
+import { eccentricAnomaly, trueAnomalyFromEccentric } from "./physics/kepler.js";
+import { distanceFromEccentric, meanMotion, timeAtEccentric } from "./physics/orbit.js";
 import { chooseIntegrator, integrateCycle, solvePeriodic, type IntegratorName } from "./solve/periodic.js";
 import { addWork, emptyWork, type SolverWork } from "./solve/system.js";
+import { buildThermalModel, type ThermalModel } from "./thermalModel.js";
 
 const TWO_PI = 2 * Math.PI;
-/**
- * Statistics grid, points per orbit in E (see analysis/cycleStatistics.ts for why E). The
- * periastron peak of the integrand has a width in E of about √(2(1 − e)), so the grid grows as
- * that width shrinks: 512 points up to e = 0.9, 8192 at e = 0.999.
- */
-function statisticsPointsPerOrbit(eccentricity: number): number {
-  const width = Math.sqrt(2 * (1 - eccentricity));
-  const points = Math.ceil((512 * Math.sqrt(0.2)) / width / 64) * 64;
-  return Math.min(8192, Math.max(512, points));
-}
 export const DEFAULT_RELATIVE_TOLERANCE = 1e-8;
 export const DEFAULT_SAMPLES = 1000;
+/** A non-commensurate spin: orbits integrated at most while the orbit-mean temperature settles. */
+const MAX_SEASONAL_ORBITS = 2000;
 
 export interface SimulateOptions {
   /** Relative tolerance of the temperatures (default 1e-8). */
   relativeTolerance?: number;
-  /** Points in the output series (uniform in time, both ends included; default 1000; 0 for none). */
+  /** Points in the output series (uniform in time, both ends included); default 1000, more for a fast-spinning point. */
   samples?: number;
-  /** Transient mode: start at this temperature (K) and integrate `orbits` orbits; no shooting. */
+  /** Transient mode: start at this temperature (K, every state) and integrate `orbits` orbits; no shooting. */
   transient?: { startK: number; orbits: number };
 }
 
-/** The history, uniform in time from t = 0; all arrays the same length. */
+/** One state's history (a surface, a hemisphere). */
+export interface StateSeries {
+  name: string;
+  temperatureK: Float64Array;
+  equilibriumK: Float64Array;
+  absorbedWPerM2: Float64Array;
+}
+
+/** The history, uniform in time from t = 0; all arrays the same length. Top-level T, T_eq, absorbed are state 0's. */
 export interface Series {
   timeSeconds: Float64Array;
   meanAnomalyRad: Float64Array;
@@ -48,17 +47,19 @@ export interface Series {
   absorbedWPerM2: Float64Array;
   temperatureK: Float64Array;
   equilibriumK: Float64Array;
+  states: StateSeries[];
 }
 
 export interface SolverReport {
-  mode: "periodic" | "transient";
+  /** periodic: shooting on the exact cycle; seasonal: orbits integrated until the orbit-mean settled (non-commensurate spin); transient: as asked. */
+  mode: "periodic" | "seasonal" | "transient";
   integrator: IntegratorName;
   requestedTolerance: number;
   odeRelativeTolerance: number;
   /** Shooting iterations (periodic mode) — each integrates one cycle. */
   iterations: number;
   orbitsIntegrated: number;
-  /** |T(P) − T(0)| / T on the converged cycle (periodic mode). */
+  /** |T(cycle) − T(0)| / T on the converged cycle (periodic), or the last orbit-to-orbit change of the mean (seasonal). */
   periodicityResidual: number | null;
   steps: number;
   rejectedSteps: number;
@@ -72,237 +73,276 @@ export interface Simulation {
   solver: SolverReport;
 }
 
-/** What the engine needs to integrate and summarise one case. */
-interface Prepared {
-  balance: LumpedBalance;
-  forcing: Forcing;
-  equilibriumAt: (E: number) => number;
-  meanEquilibriumOfMeanFluxK: number;
-  stiffnessPerOrbit: number;
-}
-
-function prepare(thermal: ThermalCase): Prepared {
-  checkOrbit(thermal.orbit);
-  requireNumber("star.luminosity", thermal.star.luminosityW, (l) => l > 0, "L > 0 W");
-  const forcing = lumpedForcing(thermal.regime, thermal.surface.albedo, thermal.star.luminosityW, thermal.orbit);
-  const balance = new LumpedBalance(thermal.orbit, thermal.surface, forcing);
-  const q = thermal.surface.internalFluxWPerM2;
-  const eps = thermal.surface.emissivity;
-  equilibriumTemperature(forcing.meanAbsorbedWPerM2 + q, eps); // validates ε once; the fast form below is unchecked
-  const emission = eps * STEFAN_BOLTZMANN;
-  const equilibriumAt = (E: number): number => Math.sqrt(Math.sqrt((forcing.absorbedAt(E) + q) / emission));
-  const meanEquilibriumOfMeanFluxK = equilibriumTemperature(forcing.meanAbsorbedWPerM2 + q, eps);
-  // Relaxation rate in E is (dt/dE)/τ(T_eq(E)); its maximum over the orbit times 2π measures stiffness.
-  let stiffness = 0;
-  const y = new Float64Array(1);
-  const jac = new Float64Array(1);
-  for (let k = 0; k < 64; k++) {
-    const E = (TWO_PI * k) / 64;
-    y[0] = equilibriumAt(E);
-    balance.jacobian(E, y, jac);
-    stiffness = Math.max(stiffness, Math.abs(jac[0]!) * TWO_PI);
-  }
-  return { balance, forcing, equilibriumAt, meanEquilibriumOfMeanFluxK, stiffnessPerOrbit: stiffness };
-}
-
 /** Runs one case to its periodic steady state (or through a transient) and summarises it. */
 export function simulate(thermal: ThermalCase, options: SimulateOptions = {}): Simulation {
   const rtol = options.relativeTolerance ?? DEFAULT_RELATIVE_TOLERANCE;
   requireNumber("tolerance", rtol, (t) => t >= 1e-13 && t <= 1e-2, "1e-13 ≤ tolerance ≤ 1e-2");
-  const sampleCount = options.samples ?? DEFAULT_SAMPLES;
-  requireNumber("samples", sampleCount, (n) => Number.isInteger(n) && (n === 0 || (n >= 2 && n <= 10_000_000)), "0, or an integer from 2 to 10,000,000");
+  const model = buildThermalModel(thermal);
   const { orbit } = thermal;
-  const prepared = prepare(thermal);
-  const { balance } = prepared;
-  const orbits = options.transient ? options.transient.orbits : 1;
+  const n = model.system.dimension;
   if (options.transient) {
     requireNumber("from", options.transient.startK, (t) => t > 0, "a temperature > 0 K");
-    requireNumber("orbits", orbits, (n) => Number.isInteger(n) && n >= 1 && n <= 100_000, "an integer from 1 to 100,000");
+    requireNumber("orbits", options.transient.orbits, (k) => Number.isInteger(k) && k >= 1 && k <= 100_000, "an integer from 1 to 100,000");
   }
+  const mode: SolverReport["mode"] = options.transient ? "transient" : model.commensurate ? "periodic" : "seasonal";
+  checkHeated(thermal, model, mode);
 
   const startE = eccentricAnomaly(orbit.meanAnomalyAtStartRad, orbit.eccentricity);
-  const periodSeconds = orbit.periodSeconds;
-  const spanSeconds = orbits * periodSeconds;
+  const spanOrbits = mode === "transient" ? options.transient!.orbits : mode === "periodic" ? model.cycleOrbits : 1;
+  const summaryOrbits = mode === "periodic" ? model.cycleOrbits : 1;
+  const defaultSamples = Math.min(200_000, Math.max(DEFAULT_SAMPLES, model.solarDaySeconds ? Math.ceil((48 * spanOrbits * orbit.periodSeconds) / model.solarDaySeconds) : 0));
+  const sampleCount = options.samples ?? defaultSamples;
+  requireNumber("samples", sampleCount, (k) => Number.isInteger(k) && (k === 0 || (k >= 2 && k <= 10_000_000)), "0, or an integer from 2 to 10,000,000");
 
-  // Output grid, uniform in time; Kepler is solved here, once per sample, never inside the ODE.
-  const outputE = new Float64Array(sampleCount);
-  for (let j = 0; j < sampleCount; j++) {
-    const t = sampleCount === 1 ? 0 : (spanSeconds * j) / (sampleCount - 1);
-    outputE[j] = eccentricAnomaly(orbit.meanAnomalyAtStartRad + meanMotion(orbit) * t, orbit.eccentricity);
-    if (j === sampleCount - 1) outputE[j] = startE + TWO_PI * orbits; // exact end despite rounding
-  }
-  // Statistics grid, uniform in E over the last orbit integrated (the converged cycle).
-  const pointsPerOrbit = statisticsPointsPerOrbit(orbit.eccentricity);
-  const statsCount = pointsPerOrbit + 1;
-  const lastOrbitStart = startE + TWO_PI * (orbits - 1);
-  const statsE = new Float64Array(statsCount);
-  for (let k = 0; k < statsCount; k++) statsE[k] = lastOrbitStart + (TWO_PI * k) / pointsPerOrbit;
-
-  const scale = Float64Array.of(prepared.meanEquilibriumOfMeanFluxK);
+  const scale = new Float64Array(n).fill(model.meanFluxEquilibriumK);
   const work: SolverWork = emptyWork();
   let solver: SolverReport;
-  const statsT = new Float64Array(statsCount);
-  const outputT = new Float64Array(sampleCount);
+  let runStartE = startE; // where the sampled span starts (seasonal mode: the last orbit)
+  let sampledOrbits = spanOrbits;
+  let y0: Float64Array;
 
-  if (!options.transient) {
-    const tau = radiativeTimeSeconds(thermal.surface.heatCapacityJPerM2K, thermal.surface.emissivity, prepared.meanEquilibriumOfMeanFluxK);
-    const guess = linearResponseGuess(prepared.equilibriumAt, orbit.eccentricity, orbit.meanAnomalyAtStartRad, tau / periodSeconds, prepared.meanEquilibriumOfMeanFluxK);
-    const merged = mergeGrids(outputE, statsE);
+  if (mode === "periodic") {
+    y0 = guessStart(model, thermal);
+    const grids = makeGrids(orbit, startE, spanOrbits, summaryOrbits, sampleCount, model.statsPointsPerOrbit, n);
     const result = solvePeriodic(
-      {
-        system: balance,
-        start: startE,
-        cycleLength: TWO_PI,
-        guess: Float64Array.of(guess),
-        scale,
-        stiffness: prepared.stiffnessPerOrbit,
-      },
-      { relativeTolerance: rtol, samples: { xs: merged.xs, ys: merged.ys, components: 1 } },
+      { system: model.system, start: startE, cycleLength: TWO_PI * model.cycleOrbits, guess: y0, scale, stiffness: model.stiffness },
+      { relativeTolerance: rtol, samples: grids.dense },
     );
-    merged.scatter(outputT, statsT);
     addWork(work, result.work);
-    solver = {
-      mode: "periodic",
-      integrator: result.integrator,
-      requestedTolerance: rtol,
-      odeRelativeTolerance: result.odeRelativeTolerance,
-      iterations: result.iterations,
-      orbitsIntegrated: result.cyclesIntegrated,
-      periodicityResidual: result.periodicityResidual,
-      steps: work.steps,
-      rejectedSteps: work.rejected,
-      evaluations: work.evaluations,
-    };
-  } else {
-    const integrator = chooseIntegrator(prepared.stiffnessPerOrbit);
-    const y = Float64Array.of(options.transient.startK);
-    const merged = mergeGrids(outputE, statsE);
-    addWork(
-      work,
-      integrateCycle(balance, integrator, startE, startE + TWO_PI * orbits, y, rtol * 0.1, scale, {
-        xs: merged.xs,
-        ys: merged.ys,
-        components: 1,
-      }),
-    );
-    merged.scatter(outputT, statsT);
-    solver = {
-      mode: "transient",
-      integrator,
-      requestedTolerance: rtol,
-      odeRelativeTolerance: rtol * 0.1,
-      iterations: 0,
-      orbitsIntegrated: orbits,
-      periodicityResidual: null,
-      steps: work.steps,
-      rejectedSteps: work.rejected,
-      evaluations: work.evaluations,
-    };
-  }
-  for (let k = 0; k < statsCount; k++) {
-    if (!(statsT[k]! > 0)) throw new CalorbitError("INTEGRATION_FAILED", "the temperature left the physical range (T ≤ 0 K)");
+    solver = report("periodic", result.integrator, rtol, result.odeRelativeTolerance, result.iterations, result.cyclesIntegrated * model.cycleOrbits, result.periodicityResidual, work);
+    return finish(thermal, model, grids, solver);
   }
 
-  const summary = cycleSummary({
-    thermal,
-    balance,
-    forcing: prepared.forcing,
-    equilibriumAt: prepared.equilibriumAt,
-    statsE,
-    statsT,
-    meanEquilibriumOfMeanFluxK: prepared.meanEquilibriumOfMeanFluxK,
-  });
-  const series = buildSeries(thermal, prepared, outputE, outputT);
-  return { case: thermal, summary, series, solver };
+  const integrator = chooseIntegrator(model.stiffness / model.cycleOrbits);
+  const odeTol = rtol * 0.1;
+  const y = mode === "transient" ? new Float64Array(n).fill(options.transient!.startK) : guessStart(model, thermal);
+  let orbitsIntegrated = 0;
+  let change: number | null = null;
+  if (mode === "seasonal") {
+    // No exact cycle: integrate orbit after orbit until the orbit-mean temperature settles.
+    const probe = makeGrids(orbit, startE, 1, 1, 0, model.statsPointsPerOrbit, n);
+    let previousMean = NaN;
+    for (;;) {
+      const from = startE + TWO_PI * orbitsIntegrated;
+      const shifted = Float64Array.from(probe.statsE, (E) => E + TWO_PI * orbitsIntegrated);
+      const ys = new Float64Array(shifted.length * n);
+      addWork(work, integrateCycle(model.system, integrator, from, from + TWO_PI, y, odeTol, scale, { xs: shifted, ys, components: n }));
+      orbitsIntegrated++;
+      const t0 = Float64Array.from({ length: shifted.length }, (_, k) => ys[k * n]!);
+      const dtdE = Float64Array.from(shifted, (E) => model.timePerAnomaly(E));
+      const mean = timeMean(t0, dtdE);
+      change = Math.abs(mean - previousMean) / mean;
+      previousMean = mean;
+      if (change <= rtol) break;
+      if (orbitsIntegrated >= MAX_SEASONAL_ORBITS) {
+        throw new CalorbitError("PERIODIC_NO_CONVERGENCE", `the seasonal cycle did not settle in ${MAX_SEASONAL_ORBITS} orbits (last change of the orbit mean ${change.toExponential(2)})`);
+      }
+    }
+    runStartE = startE + TWO_PI * orbitsIntegrated;
+    sampledOrbits = 1;
+  }
+  const grids = makeGrids(orbit, runStartE, sampledOrbits, summaryOrbits, sampleCount, model.statsPointsPerOrbit, n);
+  addWork(work, integrateCycle(model.system, integrator, runStartE, runStartE + TWO_PI * sampledOrbits, y, odeTol, scale, grids.dense));
+  orbitsIntegrated += sampledOrbits;
+  solver = report(mode, integrator, rtol, odeTol, 0, orbitsIntegrated, change, work);
+  return finish(thermal, model, grids, solver);
+}
+
+function report(
+  mode: SolverReport["mode"],
+  integrator: IntegratorName,
+  rtol: number,
+  odeTol: number,
+  iterations: number,
+  orbits: number,
+  residual: number | null,
+  work: SolverWork,
+): SolverReport {
+  return {
+    mode,
+    integrator,
+    requestedTolerance: rtol,
+    odeRelativeTolerance: odeTol,
+    iterations,
+    orbitsIntegrated: orbits,
+    periodicityResidual: residual,
+    steps: work.steps,
+    rejectedSteps: work.rejected,
+    evaluations: work.evaluations,
+  };
+}
+
+/** A state with no heat source over the whole cycle cools toward 0 K: there is no periodic state to find. */
+function checkHeated(thermal: ThermalCase, model: ThermalModel, mode: SolverReport["mode"]): void {
+  if (mode === "transient" || model.internalFluxWPerM2 > 0) return;
+  if (thermal.regime === "daynight") {
+    const ex = thermal.exchange;
+    if (!ex || (ex.recirculation === 0 && ex.coefficientWPerM2K === 0)) {
+      throw new CalorbitError("INVALID_ARGUMENT", "daynight: the night side has no heat source", [
+        { path: "body", given: "no recirculation, exchange coefficient or internal flux", allowed: "body.recirculation > 0, body.exchangeCoefficient > 0 or body.internalFlux > 0" },
+      ]);
+    }
+  } else if (!(model.meanAbsorbedWPerM2 > 0)) {
+    throw new CalorbitError("INVALID_ARGUMENT", "the surface never sees the star", [
+      { path: "surface", given: "a point or band in permanent night", allowed: "a place that is lit during the cycle, or body.internalFlux > 0" },
+    ]);
+  }
 }
 
 /**
- * First guess of the periodic start temperature from linear response: T_eq(M) expanded in
+ * First guess of the periodic start state from linear response: each state's T_eq expanded in
  * harmonics of the mean anomaly, each passed through the first-order filter 1/(1 + i k ωτ)
  * (standard), the mean moved from ⟨T_eq⟩ toward the mean-flux equilibrium as memory grows.
  * Newton then has only the nonlinearity to remove: typically two or three cycles.
  */
-function linearResponseGuess(
-  equilibriumAt: (E: number) => number,
-  eccentricity: number,
-  startMeanAnomalyRad: number,
-  tauOverPeriod: number,
-  meanFluxEquilibriumK: number,
-): number {
+function guessStart(model: ThermalModel, thermal: ThermalCase): Float64Array {
+  const n = model.system.dimension;
+  const e = thermal.orbit.eccentricity;
   const points = 64;
   const harmonics = 3;
-  const a = new Float64Array(harmonics + 1);
-  const b = new Float64Array(harmonics + 1);
+  const a = new Float64Array((harmonics + 1) * n);
+  const b = new Float64Array((harmonics + 1) * n);
+  const fourth = new Float64Array(n); // ⟨T_eq⁴⟩: a slab with long memory sits near its fourth root
+  const eq = new Float64Array(n);
   for (let j = 0; j < points; j++) {
     const E = (TWO_PI * j) / points;
-    const M = E - eccentricity * Math.sin(E);
-    const weight = (1 - eccentricity * Math.cos(E)) / points; // dM/dE over 2π, trapezoidal in E
-    const teq = equilibriumAt(E);
+    const M = E - e * Math.sin(E);
+    const weight = (1 - e * Math.cos(E)) / points; // dM/dE over 2π, trapezoidal in E
+    model.equilibriumAt(E, eq);
     for (let k = 0; k <= harmonics; k++) {
-      a[k]! += teq * Math.cos(k * M) * weight;
-      b[k]! += teq * Math.sin(k * M) * weight;
+      for (let i = 0; i < n; i++) {
+        a[k * n + i]! += eq[i]! * Math.cos(k * M) * weight;
+        b[k * n + i]! += eq[i]! * Math.sin(k * M) * weight;
+      }
     }
+    for (let i = 0; i < n; i++) fourth[i]! += eq[i]! ** 4 * weight;
   }
-  const omegaTau = TWO_PI * tauOverPeriod;
+  const omegaTau = (TWO_PI * model.radiativeTimeSeconds) / thermal.orbit.periodSeconds;
   const memory = (omegaTau * omegaTau) / (1 + omegaTau * omegaTau);
-  let t = memory * meanFluxEquilibriumK + (1 - memory) * a[0]!;
-  for (let k = 1; k <= harmonics; k++) {
-    // Re[(a − i b) e^{ikM₀} / (1 + i k ωτ)] × 2
-    const x = k * omegaTau;
-    const c = Math.cos(k * startMeanAnomalyRad);
-    const s = Math.sin(k * startMeanAnomalyRad);
-    const re = a[k]! * c + b[k]! * s;
-    const im = a[k]! * s - b[k]! * c;
-    t += (2 * (re + x * im)) / (1 + x * x);
+  const m0 = thermal.orbit.meanAnomalyAtStartRad;
+  const guess = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    let t = memory * Math.sqrt(Math.sqrt(fourth[i]!)) + (1 - memory) * a[i]!;
+    for (let k = 1; k <= harmonics; k++) {
+      // 2 Re[(a − i b) e^{ikM₀} / (1 + i k ωτ)]
+      const x = k * omegaTau;
+      const c = Math.cos(k * m0);
+      const s = Math.sin(k * m0);
+      const re = a[k * n + i]! * c + b[k * n + i]! * s;
+      const im = a[k * n + i]! * s - b[k * n + i]! * c;
+      t += (2 * (re + x * im)) / (1 + x * x);
+    }
+    guess[i] = Math.max(t, 0.3 * model.meanFluxEquilibriumK);
   }
-  return t;
+  return guess;
 }
 
-/** Joins two ascending grids into one for a single dense pass, and splits the results back. */
-function mergeGrids(a: Float64Array, b: Float64Array) {
-  const xs = new Float64Array(a.length + b.length);
-  const origin = new Int32Array(a.length + b.length); // ≥ 0: index into a; < 0: −(index into b) − 1
+interface Grids {
+  outputE: Float64Array;
+  statsE: Float64Array;
+  dense: { xs: Float64Array; ys: Float64Array; components: number };
+  /** Splits the dense output back into the two grids. */
+  scatter(): { outputY: Float64Array; statsY: Float64Array };
+}
+
+/**
+ * The output grid (uniform in time over the span; Kepler solved once per sample, never inside the
+ * ODE) and the statistics grid (uniform in E over the last `summaryOrbits` orbits), merged into one
+ * ascending grid so that a single dense pass fills both.
+ */
+function makeGrids(
+  orbit: ThermalCase["orbit"],
+  startE: number,
+  spanOrbits: number,
+  summaryOrbits: number,
+  sampleCount: number,
+  statsPointsPerOrbit: number,
+  n: number,
+): Grids {
+  const spanSeconds = spanOrbits * orbit.periodSeconds;
+  const startM = startE - orbit.eccentricity * Math.sin(startE);
+  const outputE = new Float64Array(sampleCount);
+  for (let j = 0; j < sampleCount; j++) {
+    const t = (spanSeconds * j) / (sampleCount - 1);
+    outputE[j] = j === sampleCount - 1 ? startE + TWO_PI * spanOrbits : eccentricAnomaly(startM + meanMotion(orbit) * t, orbit.eccentricity);
+  }
+  const statsCount = statsPointsPerOrbit * summaryOrbits + 1;
+  const statsStart = startE + TWO_PI * (spanOrbits - summaryOrbits);
+  const statsE = new Float64Array(statsCount);
+  for (let k = 0; k < statsCount; k++) statsE[k] = statsStart + (TWO_PI * k) / statsPointsPerOrbit;
+
+  const total = sampleCount + statsCount;
+  const xs = new Float64Array(total);
+  const origin = new Int32Array(total); // ≥ 0: output index; < 0: −(stats index) − 1
   let i = 0;
   let j = 0;
-  for (let k = 0; k < xs.length; k++) {
-    if (j >= b.length || (i < a.length && a[i]! <= b[j]!)) {
-      xs[k] = a[i]!;
+  for (let k = 0; k < total; k++) {
+    if (j >= statsCount || (i < sampleCount && outputE[i]! <= statsE[j]!)) {
+      xs[k] = outputE[i]!;
       origin[k] = i++;
     } else {
-      xs[k] = b[j]!;
+      xs[k] = statsE[j]!;
       origin[k] = -(j++) - 1;
     }
   }
-  const ys = new Float64Array(xs.length);
+  const dense = { xs, ys: new Float64Array(total * n), components: n };
   return {
-    xs,
-    ys,
-    scatter(intoA: Float64Array, intoB: Float64Array): void {
-      for (let k = 0; k < xs.length; k++) {
+    outputE,
+    statsE,
+    dense,
+    scatter() {
+      const outputY = new Float64Array(sampleCount * n);
+      const statsY = new Float64Array(statsCount * n);
+      for (let k = 0; k < total; k++) {
         const o = origin[k]!;
-        if (o >= 0) intoA[o] = ys[k]!;
-        else intoB[-o - 1] = ys[k]!;
+        const target = o >= 0 ? outputY : statsY;
+        const index = o >= 0 ? o : -o - 1;
+        for (let c = 0; c < n; c++) target[index * n + c] = dense.ys[k * n + c]!;
       }
+      return { outputY, statsY };
     },
   };
 }
 
-function buildSeries(thermal: ThermalCase, prepared: Prepared, outputE: Float64Array, outputT: Float64Array): Series {
-  const n = outputE.length;
+function finish(thermal: ThermalCase, model: ThermalModel, grids: Grids, solver: SolverReport): Simulation {
+  const { outputY, statsY } = grids.scatter();
+  for (let k = 0; k < statsY.length; k++) {
+    if (!(statsY[k]! > 0)) throw new CalorbitError("INTEGRATION_FAILED", "the temperature left the physical range (T ≤ 0 K)");
+  }
+  const summary = cycleSummary({
+    model,
+    orbit: thermal.orbit,
+    statsE: grids.statsE,
+    statsY,
+    ...(thermal.windowK ? { windowK: thermal.windowK } : {}),
+  });
+  return { case: thermal, summary, series: buildSeries(thermal, model, grids.outputE, outputY), solver };
+}
+
+function buildSeries(thermal: ThermalCase, model: ThermalModel, outputE: Float64Array, outputY: Float64Array): Series {
+  const count = outputE.length;
+  const n = model.system.dimension;
   const { orbit } = thermal;
+  const states: StateSeries[] = model.stateNames.map((name) => ({
+    name,
+    temperatureK: new Float64Array(count),
+    equilibriumK: new Float64Array(count),
+    absorbedWPerM2: new Float64Array(count),
+  }));
   const series: Series = {
-    timeSeconds: new Float64Array(n),
-    meanAnomalyRad: new Float64Array(n),
-    trueAnomalyRad: new Float64Array(n),
-    distanceM: new Float64Array(n),
-    stellarFluxWPerM2: new Float64Array(n),
-    absorbedWPerM2: new Float64Array(n),
-    temperatureK: outputT,
-    equilibriumK: new Float64Array(n),
+    timeSeconds: new Float64Array(count),
+    meanAnomalyRad: new Float64Array(count),
+    trueAnomalyRad: new Float64Array(count),
+    distanceM: new Float64Array(count),
+    stellarFluxWPerM2: new Float64Array(count),
+    absorbedWPerM2: states[0]!.absorbedWPerM2,
+    temperatureK: states[0]!.temperatureK,
+    equilibriumK: states[0]!.equilibriumK,
+    states,
   };
-  const startE = outputE[0] ?? 0;
-  const t0 = timeAtEccentric(orbit, startE);
-  for (let j = 0; j < n; j++) {
+  const t0 = count > 0 ? timeAtEccentric(orbit, outputE[0]!) : 0;
+  const eq = new Float64Array(n);
+  for (let j = 0; j < count; j++) {
     const E = outputE[j]!;
     const r = distanceFromEccentric(orbit, E);
     series.timeSeconds[j] = timeAtEccentric(orbit, E) - t0;
@@ -310,8 +350,12 @@ function buildSeries(thermal: ThermalCase, prepared: Prepared, outputE: Float64A
     series.trueAnomalyRad[j] = trueAnomalyFromEccentric(E, orbit.eccentricity);
     series.distanceM[j] = r;
     series.stellarFluxWPerM2[j] = stellarFlux(thermal.star.luminosityW, r);
-    series.absorbedWPerM2[j] = prepared.forcing.absorbedAt(E);
-    series.equilibriumK[j] = prepared.equilibriumAt(E);
+    model.equilibriumAt(E, eq);
+    for (let i = 0; i < n; i++) {
+      states[i]!.temperatureK[j] = outputY[j * n + i]!;
+      states[i]!.equilibriumK[j] = eq[i]!;
+      states[i]!.absorbedWPerM2[j] = model.absorbedAt(E, i);
+    }
   }
   return series;
 }

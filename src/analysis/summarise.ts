@@ -1,15 +1,12 @@
 /**
  * The summary of one converged cycle: temperature and equilibrium extremes and time means, the
  * lag of the maximum after periastron, the damping ratio, the radiative time, time in a window,
- * and the energy budget with its residual.
+ * and the energy budget with its residual. Multi-state models (day and night) get one block per
+ * state; the top-level numbers describe the first state.
  */
-import { STEFAN_BOLTZMANN } from "../constants.js";
-import type { LumpedBalance } from "../physics/energyBalance.js";
-import { radiativeTimeSeconds } from "../physics/energyBalance.js";
 import { wienPeakWavelengthM } from "../physics/flux.js";
-import type { Forcing } from "../physics/forcing.js";
-import { firstPeriastronSeconds, timeAtEccentric } from "../physics/orbit.js";
-import type { ThermalCase } from "../model.js";
+import { firstPeriastronSeconds, timeAtEccentric, type Orbit } from "../physics/orbit.js";
+import type { ThermalModel } from "../thermalModel.js";
 import { hermiteExtremum, refinedExtremum, timeInWindow, timeMean } from "./cycleStatistics.js";
 
 export interface TemperatureStats {
@@ -21,8 +18,8 @@ export interface TemperatureStats {
   swingK: number;
 }
 
-export interface CycleSummary {
-  periodSeconds: number;
+/** The statistics of one state (a surface, a hemisphere). */
+export interface StateSummary {
   temperature: TemperatureStats;
   equilibrium: TemperatureStats;
   /** Time from the start of the run to the temperature maximum / minimum (last cycle), s. */
@@ -30,97 +27,148 @@ export interface CycleSummary {
   timeOfMinSeconds: number;
   /** Delay of the temperature maximum after the periastron before it, in [0, P); null on a circular orbit. */
   lagSeconds: number | null;
-  /** Temperature swing over equilibrium swing; 1 on a circular orbit. */
+  /** Temperature swing over equilibrium swing; 1 when the equilibrium does not swing. */
   dampingRatio: number;
-  /** τ = C/(4εσT³) at the equilibrium temperature of the orbit-mean absorbed flux, s. */
-  radiativeTimeSeconds: number;
-  tauOverPeriod: number;
   /** Present only when a window is given. */
   timeInRange?: { lowK: number; highK: number; fraction: number; seconds: number };
-  /** Time-mean absorbed power (stellar + internal), W m⁻². */
+  /** Time-mean stellar + internal power absorbed by this state, W m⁻² (before any exchange). */
   meanAbsorbedWPerM2: number;
   /** Time-mean emitted power εσT⁴, W m⁻². */
   meanEmittedWPerM2: number;
-  /** (absorbed − emitted) / absorbed over the cycle; ≈ 0 at periodic steady state. */
-  energyBalanceResidual: number;
   /** Wien peak wavelengths at T min and T max, m. */
   wienPeakAtMinM: number;
   wienPeakAtMaxM: number;
 }
 
+export interface CycleSummary extends StateSummary {
+  periodSeconds: number;
+  /** Length of the forcing cycle summarised (one orbit, or q orbits for a p:q resonance), s. */
+  cycleSeconds: number;
+  /** τ = C/(4εσT³) at the equilibrium of the cycle-mean absorbed flux, s. */
+  radiativeTimeSeconds: number;
+  tauOverPeriod: number;
+  /** (absorbed − emitted) / absorbed over the cycle, all states together; ≈ 0 at periodic steady state. */
+  energyBalanceResidual: number;
+  /** Mean solar day (point regime), s; null for a synchronous spin. */
+  solarDaySeconds?: number | null;
+  /** Day/night regime: the two hemispheres. */
+  day?: StateSummary;
+  night?: StateSummary;
+}
+
 export interface SummaryInput {
-  thermal: ThermalCase;
-  balance: LumpedBalance;
-  forcing: Forcing;
-  equilibriumAt: (E: number) => number;
-  /** Uniform grid in E over one orbit, both ends included. */
+  model: ThermalModel;
+  orbit: Orbit;
+  windowK?: readonly [number, number];
+  /** Uniform grid in E over the summarised cycle, both ends included. */
   statsE: Float64Array;
-  statsT: Float64Array;
-  meanEquilibriumOfMeanFluxK: number;
+  /** States at the grid points, component-major: statsY[k·n + i]. */
+  statsY: Float64Array;
 }
 
 export function cycleSummary(input: SummaryInput): CycleSummary {
-  const { thermal, balance, forcing, statsE, statsT } = input;
-  const { orbit, surface } = thermal;
+  const { model, orbit, statsE, statsY } = input;
+  const n = model.system.dimension;
   const count = statsE.length;
   const dtdE = new Float64Array(count);
-  const dTdE = new Float64Array(count);
+  const derivatives = new Float64Array(count * n);
+  const equilibria = new Float64Array(count * n);
+  const dy = new Float64Array(n);
+  const eq = new Float64Array(n);
+  for (let k = 0; k < count; k++) {
+    const E = statsE[k]!;
+    dtdE[k] = model.timePerAnomaly(E);
+    model.system.derivative(E, statsY.subarray(k * n, k * n + n), dy);
+    model.equilibriumAt(E, eq);
+    for (let i = 0; i < n; i++) {
+      derivatives[k * n + i] = dy[i]!;
+      equilibria[k * n + i] = eq[i]!;
+    }
+  }
+  const states: StateSummary[] = [];
+  let totalAbsorbed = 0;
+  let totalEmitted = 0;
+  for (let i = 0; i < n; i++) {
+    const s = stateSummary(input, i, dtdE, derivatives, equilibria);
+    states.push(s);
+    totalAbsorbed += s.meanAbsorbedWPerM2;
+    totalEmitted += s.meanEmittedWPerM2;
+  }
+  const cycleSeconds = timeAtEccentric(orbit, statsE[count - 1]!) - timeAtEccentric(orbit, statsE[0]!);
+  const summary: CycleSummary = {
+    periodSeconds: orbit.periodSeconds,
+    cycleSeconds,
+    ...states[0]!,
+    radiativeTimeSeconds: model.radiativeTimeSeconds,
+    tauOverPeriod: model.radiativeTimeSeconds / orbit.periodSeconds,
+    energyBalanceResidual: (totalAbsorbed - totalEmitted) / totalAbsorbed,
+  };
+  if (model.solarDaySeconds !== undefined) summary.solarDaySeconds = model.solarDaySeconds;
+  if (model.stateNames[0] === "day" && states.length === 2) {
+    summary.day = states[0]!;
+    summary.night = states[1]!;
+  }
+  return summary;
+}
+
+function stateSummary(
+  input: SummaryInput,
+  state: number,
+  dtdE: Float64Array,
+  derivatives: Float64Array,
+  equilibria: Float64Array,
+): StateSummary {
+  const { model, orbit, statsE, statsY } = input;
+  const n = model.system.dimension;
+  const count = statsE.length;
+  const t = new Float64Array(count);
+  const d = new Float64Array(count);
   const teq = new Float64Array(count);
   const absorbed = new Float64Array(count);
   const emitted = new Float64Array(count);
-  const y = new Float64Array(1);
-  const dy = new Float64Array(1);
-  const emission = surface.emissivity * STEFAN_BOLTZMANN;
   for (let k = 0; k < count; k++) {
-    const E = statsE[k]!;
-    dtdE[k] = balance.timePerAnomaly(E);
-    y[0] = statsT[k]!;
-    balance.derivative(E, y, dy);
-    dTdE[k] = dy[0]!;
-    teq[k] = input.equilibriumAt(E);
-    absorbed[k] = forcing.absorbedAt(E) + surface.internalFluxWPerM2;
-    emitted[k] = emission * statsT[k]! ** 4;
+    const T = statsY[k * n + state]!;
+    t[k] = T;
+    d[k] = derivatives[k * n + state]!;
+    teq[k] = equilibria[k * n + state]!;
+    absorbed[k] = model.absorbedAt(statsE[k]!, state) + model.internalFluxWPerM2;
+    const T2 = T * T;
+    emitted[k] = model.emissionCoefficient * T2 * T2;
   }
-
-  const tMax = hermiteExtremum(statsE, statsT, dTdE, 1);
-  const tMin = hermiteExtremum(statsE, statsT, dTdE, -1);
-  const eqMax = refinedExtremum(statsE, teq, input.equilibriumAt, 1);
-  const eqMin = refinedExtremum(statsE, teq, input.equilibriumAt, -1);
-  const temperature = stats(tMin.value, tMax.value, timeMean(statsT, dtdE));
+  const eqBuffer = new Float64Array(n);
+  const equilibriumOfState = (E: number): number => {
+    model.equilibriumAt(E, eqBuffer);
+    return eqBuffer[state]!;
+  };
+  const tMax = hermiteExtremum(statsE, t, d, 1);
+  const tMin = hermiteExtremum(statsE, t, d, -1);
+  const eqMax = refinedExtremum(statsE, teq, equilibriumOfState, 1);
+  const eqMin = refinedExtremum(statsE, teq, equilibriumOfState, -1);
+  const temperature = stats(tMin.value, tMax.value, timeMean(t, dtdE));
   const equilibrium = stats(eqMin.value, eqMax.value, timeMean(teq, dtdE));
 
   const periodSeconds = orbit.periodSeconds;
   const timeOfMaxSeconds = timeAtEccentric(orbit, tMax.x);
   const timeOfMinSeconds = timeAtEccentric(orbit, tMin.x);
   const circular = orbit.eccentricity === 0;
-  const periastron = firstPeriastronSeconds(orbit);
-  const lagSeconds = circular ? null : positiveModulo(timeOfMaxSeconds - periastron, periodSeconds);
-  const dampingRatio = circular || equilibrium.swingK === 0 ? 1 : temperature.swingK / equilibrium.swingK;
-
-  const meanAbsorbed = timeMean(absorbed, dtdE);
-  const meanEmitted = timeMean(emitted, dtdE);
-  const tau = radiativeTimeSeconds(surface.heatCapacityJPerM2K, surface.emissivity, input.meanEquilibriumOfMeanFluxK);
-
-  const summary: CycleSummary = {
-    periodSeconds,
+  const lagSeconds = circular ? null : positiveModulo(timeOfMaxSeconds - firstPeriastronSeconds(orbit), periodSeconds);
+  const dampingRatio = equilibrium.swingK <= 1e-12 * equilibrium.maxK ? 1 : temperature.swingK / equilibrium.swingK;
+  const summary: StateSummary = {
     temperature,
     equilibrium,
     timeOfMaxSeconds,
     timeOfMinSeconds,
     lagSeconds,
     dampingRatio,
-    radiativeTimeSeconds: tau,
-    tauOverPeriod: tau / periodSeconds,
-    meanAbsorbedWPerM2: meanAbsorbed,
-    meanEmittedWPerM2: meanEmitted,
-    energyBalanceResidual: (meanAbsorbed - meanEmitted) / meanAbsorbed,
+    meanAbsorbedWPerM2: timeMean(absorbed, dtdE),
+    meanEmittedWPerM2: timeMean(emitted, dtdE),
     wienPeakAtMinM: wienPeakWavelengthM(temperature.minK),
     wienPeakAtMaxM: wienPeakWavelengthM(temperature.maxK),
   };
-  if (thermal.windowK) {
-    const [lowK, highK] = thermal.windowK;
+  if (input.windowK) {
+    const [lowK, highK] = input.windowK;
     const cycleSeconds = timeAtEccentric(orbit, statsE[count - 1]!) - timeAtEccentric(orbit, statsE[0]!);
-    const seconds = timeInWindow(statsE, statsT, dTdE, lowK, highK, (E) => timeAtEccentric(orbit, E));
+    const seconds = timeInWindow(statsE, t, d, lowK, highK, (E) => timeAtEccentric(orbit, E));
     summary.timeInRange = { lowK, highK, fraction: seconds / cycleSeconds, seconds };
   }
   return summary;

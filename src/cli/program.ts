@@ -6,7 +6,7 @@ import { Command, CommanderError, Option } from "commander";
 import { CalorbitError, formatProblem } from "../errors.js";
 import { equilibriumTemperature, GEOMETRY_FACTOR, LUMPED_REGIMES, stellarFlux, wienPeakWavelengthM, type LumpedRegime } from "../physics/flux.js";
 import { luminosityFromRadiusTemperature } from "../physics/star.js";
-import { radiativeTimeSeconds } from "../physics/energyBalance.js";
+import { buildThermalModel } from "../thermalModel.js";
 import { resultDocument } from "../report/document.js";
 import { seriesCsv } from "../report/csv.js";
 import { describeScenario, summaryText } from "../report/text.js";
@@ -79,19 +79,17 @@ function runCommand(scenarioPath: string | undefined, flags: RunFlags): void {
 function checkCommand(scenarioPath: string): void {
   const { resolved, file } = loadScenario(scenarioPath);
   const { thermal } = resolved;
-  const q = thermal.surface.internalFluxWPerM2;
-  const meanAbsorbed =
-    (GEOMETRY_FACTOR[thermal.regime] * (1 - thermal.surface.albedo) * stellarFlux(thermal.star.luminosityW, thermal.orbit.semiMajorAxisM)) /
-      Math.sqrt(1 - thermal.orbit.eccentricity ** 2) +
-    q;
-  const tMean = equilibriumTemperature(meanAbsorbed, thermal.surface.emissivity);
-  const tau = radiativeTimeSeconds(thermal.surface.heatCapacityJPerM2K, thermal.surface.emissivity, tMean);
+  const model = buildThermalModel(thermal);
+  const tau = model.radiativeTimeSeconds;
   const lines = [
     `${file}: valid scenario "${thermal.name}"`,
     ...describeScenario(resolved),
-    `  derived   period ${duration(thermal.orbit.periodSeconds)} (${sig(thermal.orbit.periodSeconds, 6)} s), equilibrium of the orbit-mean flux ${tMean.toFixed(2)} K,`,
+    `  derived   period ${duration(thermal.orbit.periodSeconds)} (${sig(thermal.orbit.periodSeconds, 6)} s), equilibrium of the cycle-mean flux ${model.meanFluxEquilibriumK.toFixed(2)} K,`,
     `            radiative time τ = ${duration(tau)}, τ/P = ${sig(tau / thermal.orbit.periodSeconds)}`,
   ];
+  if (model.solarDaySeconds !== undefined) {
+    lines.push(`            solar day ${model.solarDaySeconds === null ? "none (synchronous)" : duration(model.solarDaySeconds)}, cycle ${model.cycleOrbits} orbit(s)${model.commensurate ? "" : " (not commensurate: seasonal convergence)"}`);
+  }
   process.stdout.write(lines.join("\n") + "\n");
 }
 

@@ -4,7 +4,8 @@
  * equation: r = a(1 − e cos E) is explicit, and so are the time and the true anomaly.
  */
 import { GEOMETRY_FACTOR, stellarFlux, type LumpedRegime } from "./flux.js";
-import type { Orbit } from "./orbit.js";
+import { dailyMeanInsolation, stellarDeclination, type SpinGeometry } from "./geometry.js";
+import { meanMotion, type Orbit } from "./orbit.js";
 
 export interface Forcing {
   /** Absorbed stellar flux (W m⁻², per unit emitting area) at eccentric anomaly E (rad). */
@@ -32,4 +33,83 @@ export function lumpedForcing(
     },
     meanAbsorbedWPerM2: atSemiMajorAxis / Math.sqrt(1 - e * e),
   };
+}
+
+/** Orbit-mean of an absorbed-flux function of E by the trapezoidal rule in E, weighted by dt/dE. */
+export function orbitMeanByQuadrature(absorbedAt: (E: number) => number, eccentricity: number, cycleOrbits: number, points: number): number {
+  let sum = 0;
+  let weight = 0;
+  const total = points * cycleOrbits;
+  for (let k = 0; k < total; k++) {
+    const E = (2 * Math.PI * k) / points;
+    const w = 1 - eccentricity * Math.cos(E);
+    sum += absorbedAt(E) * w;
+    weight += w;
+  }
+  return sum / weight;
+}
+
+/**
+ * A latitude band of a fast rotator: (1 − A) × the daily-mean insolation (Berger 1978) at the
+ * current distance and declination. The declination follows the true anomaly, explicit in E.
+ */
+export function bandForcing(
+  albedo: number,
+  luminosityW: number,
+  orbit: Orbit,
+  latitudeRad: number,
+  obliquityRad: number,
+  equinoxTrueAnomalyRad: number,
+): Forcing {
+  const e = orbit.eccentricity;
+  const absorbedAtA = (1 - albedo) * stellarFlux(luminosityW, orbit.semiMajorAxisM);
+  const trueAnomalyFactor = Math.sqrt((1 + e) / (1 - e));
+  const absorbedAt = (E: number): number => {
+    const w = 1 - e * Math.cos(E);
+    const nu = 2 * Math.atan(trueAnomalyFactor * Math.tan(E / 2));
+    const declination = stellarDeclination(obliquityRad, nu, equinoxTrueAnomalyRad);
+    return dailyMeanInsolation(absorbedAtA / (w * w), latitudeRad, declination);
+  };
+  return { absorbedAt, meanAbsorbedWPerM2: orbitMeanByQuadrature(absorbedAt, e, 1, 2048) };
+}
+
+/**
+ * One point on a spinning body: (1 − A) S cos z by day, nothing by night. The hour angle comes
+ * from the spin angle Ω (t − t_p) with t − t_p = (E − e sin E)/n, so it too is explicit in E.
+ */
+export function pointForcing(
+  albedo: number,
+  luminosityW: number,
+  orbit: Orbit,
+  latitudeRad: number,
+  longitudeRad: number,
+  spin: SpinGeometry,
+  cycleOrbits: number,
+): Forcing {
+  const e = orbit.eccentricity;
+  const n = meanMotion(orbit);
+  const absorbedAtA = (1 - albedo) * stellarFlux(luminosityW, orbit.semiMajorAxisM);
+  const trueAnomalyFactor = Math.sqrt((1 + e) / (1 - e));
+  const sinTheta = Math.sin(spin.obliquityRad);
+  const cosTheta = Math.cos(spin.obliquityRad);
+  const nuEq = spin.equinoxTrueAnomalyRad;
+  const sinLat = Math.sin(latitudeRad);
+  const cosLat = Math.cos(latitudeRad);
+  const alphaAtPeriastron = Math.atan2(cosTheta * Math.sin(-nuEq), Math.cos(-nuEq));
+  const spinPerAnomaly = spin.rateRadPerSecond / n;
+  const absorbedAt = (E: number): number => {
+    const w = 1 - e * Math.cos(E);
+    // ν enters only through sines and cosines, so its value modulo 2π is enough.
+    const nu = 2 * Math.atan(trueAnomalyFactor * Math.tan(E / 2));
+    const l = nu - nuEq;
+    const sinDecl = sinTheta * Math.sin(l);
+    const cosDecl = Math.sqrt(1 - sinDecl * sinDecl);
+    const alpha = Math.atan2(cosTheta * Math.sin(l), Math.cos(l));
+    const h = longitudeRad + alphaAtPeriastron + spinPerAnomaly * (E - e * Math.sin(E)) - alpha;
+    const mu = sinLat * sinDecl + cosLat * cosDecl * Math.cos(h);
+    return mu > 0 ? (absorbedAtA / (w * w)) * mu : 0;
+  };
+  const daysPerOrbit = Math.abs(spinPerAnomaly - 1);
+  const points = Math.min(1 << 20, Math.max(4096, Math.ceil(64 * daysPerOrbit * cycleOrbits)));
+  return { absorbedAt, meanAbsorbedWPerM2: orbitMeanByQuadrature(absorbedAt, e, cycleOrbits, Math.ceil(points / cycleOrbits)) };
 }

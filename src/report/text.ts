@@ -1,6 +1,7 @@
 /** The readable summary printed by `calorbit run` and `calorbit check`, units everywhere. */
-import { GEOMETRY_FACTOR, type LumpedRegime } from "../physics/flux.js";
+import type { Regime } from "../model.js";
 import type { ResolvedScenario } from "../scenario/resolve.js";
+import type { TemperatureStats } from "../analysis/summarise.js";
 import type { Simulation } from "../simulate.js";
 import { VERSION } from "../version.js";
 import { au, days, degrees, duration, fixed, sig, solarLuminosities, solarMasses } from "./format.js";
@@ -11,15 +12,14 @@ export const CAUTION = [
   "thermal model; nothing here replaces licensed engineering review.",
 ].join("\n");
 
-const REGIME_WORDS: Record<LumpedRegime, string> = {
-  global: "fast rotator, heat shared over the whole sphere",
-  dayside: "locked dayside, no heat carried to the night side",
-  substellar: "the point under the star",
+export const REGIME_WORDS: Readonly<Record<Regime, string>> = {
+  global: "f = 1/4: fast rotator, heat shared over the whole sphere",
+  dayside: "f = 1/2: locked dayside, no heat carried to the night side",
+  substellar: "f = 1: the point under the star",
+  daynight: "two hemispheres exchanging heat",
+  band: "daily-mean insolation at one latitude of a fast rotator",
+  point: "one place on a spinning surface, hour by hour",
 };
-
-function fraction(f: number): string {
-  return f === 0.25 ? "1/4" : f === 0.5 ? "1/2" : String(f);
-}
 
 /** The scenario as understood, in units a person reads. */
 export function describeScenario(resolved: ResolvedScenario): string[] {
@@ -46,7 +46,22 @@ export function describeScenario(resolved: ResolvedScenario): string[] {
   lines.push(
     `  body      A = ${surface.albedo}, ε = ${surface.emissivity}, C = ${sig(surface.heatCapacityJPerM2K)} J m⁻² K⁻¹${cText}, q = ${sig(surface.internalFluxWPerM2)} W m⁻²`,
   );
-  lines.push(`  regime    ${thermal.regime} (f = ${fraction(GEOMETRY_FACTOR[thermal.regime])}: ${REGIME_WORDS[thermal.regime]})`);
+  lines.push(`  regime    ${thermal.regime} (${REGIME_WORDS[thermal.regime]})`);
+  if (thermal.regime === "daynight") {
+    const ex = thermal.exchange ?? { recirculation: 0, coefficientWPerM2K: 0, weighting: "uniform" };
+    const how = ex.coefficientWPerM2K > 0 ? `exchange coefficient k = ${sig(ex.coefficientWPerM2K)} W m⁻² K⁻¹` : `recirculation efficiency ${ex.recirculation}`;
+    lines.push(`  exchange  ${how}; ${ex.weighting === "flux" ? "flux-weighted dayside (f = 2/3)" : "uniform dayside (f = 1/2)"}`);
+  }
+  if (thermal.regime === "band" || thermal.regime === "point") {
+    const spin = thermal.spin;
+    const loc = thermal.location ?? { latitudeRad: 0, longitudeRad: 0 };
+    const spinText = !spin
+      ? "synchronous (1:1), obliquity 0°"
+      : `${spin.ratio ? `${spin.ratio.spin}:${spin.ratio.orbit} spin–orbit` : `sidereal period ${duration((2 * Math.PI) / spin.rateRadPerSecond)}`}, obliquity ${sig(degrees(spin.obliquityRad))}°, equinox at true anomaly ${sig(degrees(spin.equinoxTrueAnomalyRad))}°`;
+    if (thermal.regime === "point") lines.push(`  spin      ${spinText}`);
+    else lines.push(`  axis      obliquity ${sig(degrees(spin?.obliquityRad ?? 0))}°, equinox at true anomaly ${sig(degrees(spin?.equinoxTrueAnomalyRad ?? 0))}°`);
+    lines.push(`  place     latitude ${sig(degrees(loc.latitudeRad))}°${thermal.regime === "point" ? `, longitude ${sig(degrees(loc.longitudeRad))}°` : ""}`);
+  }
   if (thermal.windowK) lines.push(`  window    ${fixed(thermal.windowK[0], 2)} K to ${fixed(thermal.windowK[1], 2)} K`);
   return lines;
 }
@@ -55,22 +70,30 @@ export function summaryText(resolved: ResolvedScenario, sim: Simulation): string
   const { summary: s, solver } = sim;
   const P = s.periodSeconds;
   const lines: string[] = [`calorbit ${VERSION} — ${resolved.thermal.name}`, ...describeScenario(resolved), ""];
-  lines.push(
-    solver.mode === "periodic"
-      ? "Periodic steady state (one orbit)"
-      : `Transient from ${fixed(sim.series.temperatureK[0]!, 2)} K over ${solver.orbitsIntegrated} orbits (statistics of the last orbit)`,
-  );
-  const row = (label: string, t: { minK: number; maxK: number; meanK: number; swingK: number }) =>
+  const heading: Record<typeof solver.mode, string> = {
+    periodic: "Periodic steady state",
+    seasonal: `Seasonal cycle (spin not commensurate with the orbit: ${solver.orbitsIntegrated} orbits integrated until the orbit mean settled; statistics of the last)`,
+    transient: `Transient from ${fixed(sim.series.temperatureK[0]!, 2)} K over ${solver.orbitsIntegrated} orbits (statistics of the last orbit)`,
+  };
+  lines.push(heading[solver.mode]);
+  const row = (label: string, t: TemperatureStats) =>
     `  ${label.padEnd(13)}${fixed(t.minK, 2).padStart(10)} K${fixed(t.maxK, 2).padStart(10)} K${fixed(t.meanK, 2).padStart(10)} K${fixed(t.swingK, 2).padStart(9)} K`;
   lines.push(`  ${"".padEnd(13)}${"min".padStart(12)}${"max".padStart(12)}${"mean".padStart(12)}${"swing".padStart(11)}`);
-  lines.push(row("temperature", s.temperature));
-  lines.push(row("equilibrium", s.equilibrium));
+  if (s.day && s.night) {
+    lines.push(row("day", s.day.temperature), row("day T_eq", s.day.equilibrium), row("night", s.night.temperature), row("night T_eq", s.night.equilibrium));
+  } else {
+    lines.push(row("temperature", s.temperature), row("equilibrium", s.equilibrium));
+  }
+  if (s.solarDaySeconds !== undefined) {
+    lines.push(`  solar day   ${s.solarDaySeconds === null ? "none (synchronous spin)" : `${duration(s.solarDaySeconds)} (${sig(s.solarDaySeconds / P, 4)} orbits)`}`);
+  }
+  if (s.cycleSeconds > P * 1.000001) lines.push(`  cycle       ${sig(s.cycleSeconds / P, 3)} orbits (the spin–orbit resonance repeats)`);
   lines.push(
     s.lagSeconds === null
       ? "  lag of maximum after periastron   none (circular orbit)"
       : `  lag of maximum after periastron   ${duration(s.lagSeconds)} (${fixed(s.lagSeconds / P, 3)} of the orbit)`,
   );
-  lines.push(`  damping ratio (T swing / Teq swing)   ${fixed(s.dampingRatio, 4)}`);
+  lines.push(`  damping ratio (T swing / Teq swing)   ${fixed(s.dampingRatio, 4)}${s.day ? " (dayside)" : ""}`);
   lines.push(`  radiative time τ = C/(4εσT³)   ${duration(s.radiativeTimeSeconds)}, τ/P = ${sig(s.tauOverPeriod)}`);
   if (s.timeInRange) {
     const w = s.timeInRange;

@@ -1,0 +1,84 @@
+/**
+ * Insolation geometry of a spinning body: declination of the star through the year, hour angle at
+ * a surface point, the cosine of the stellar zenith angle, the daily-mean insolation at a latitude,
+ * the solar day and the substellar longitude.
+ *
+ * Conventions (calorbit's own): the spin axis is fixed in space with obliquity θ to the orbit
+ * normal; `equinoxTrueAnomaly` is the true anomaly at which the body passes its northern spring
+ * equinox (the star crosses the equator northward), so the star's longitude from the equinox is
+ * l = ν − ν_eq. Longitude 0 on the body is the meridian under the star at periastron.
+ */
+const TWO_PI = 2 * Math.PI;
+
+export interface SpinGeometry {
+  /** Sidereal rotation rate Ω, rad s⁻¹ (> 0, prograde). */
+  rateRadPerSecond: number;
+  /** Obliquity θ, rad, 0 ≤ θ ≤ π. */
+  obliquityRad: number;
+  /** True anomaly at the northern spring equinox, rad. */
+  equinoxTrueAnomalyRad: number;
+}
+
+/** Declination δ of the star, rad: sin δ = sin θ sin(ν − ν_eq) (spherical astronomy, common practice). */
+export function stellarDeclination(obliquityRad: number, trueAnomalyRad: number, equinoxTrueAnomalyRad: number): number {
+  return Math.asin(Math.sin(obliquityRad) * Math.sin(trueAnomalyRad - equinoxTrueAnomalyRad));
+}
+
+/** Right ascension α of the star in the body's equatorial frame, rad: tan α = cos θ tan l. */
+export function stellarRightAscension(obliquityRad: number, trueAnomalyRad: number, equinoxTrueAnomalyRad: number): number {
+  const l = trueAnomalyRad - equinoxTrueAnomalyRad;
+  return Math.atan2(Math.cos(obliquityRad) * Math.sin(l), Math.cos(l));
+}
+
+/**
+ * Daily-mean insolation at latitude φ for declination δ and the flux S at the current distance,
+ * W m⁻²: Q = (S/π)(h₀ sin φ sin δ + cos φ cos δ sin h₀), cos h₀ = −tan φ tan δ, with h₀ = π in polar
+ * day and 0 in polar night (Berger 1978, J. Atmos. Sci. 35, 2362; the rotation is taken as fast
+ * compared with the orbit).
+ */
+export function dailyMeanInsolation(fluxWPerM2: number, latitudeRad: number, declinationRad: number): number {
+  const sinProduct = Math.sin(latitudeRad) * Math.sin(declinationRad);
+  const cosProduct = Math.cos(latitudeRad) * Math.cos(declinationRad);
+  const c = cosProduct === 0 ? (sinProduct > 0 ? -Infinity : Infinity) : -sinProduct / cosProduct;
+  let h0: number;
+  if (c <= -1) h0 = Math.PI; // polar day
+  else if (c >= 1) h0 = 0; // polar night
+  else h0 = Math.acos(c);
+  return Math.max(0, (fluxWPerM2 / Math.PI) * (h0 * sinProduct + cosProduct * Math.sin(h0)));
+}
+
+/** cos z = sin φ sin δ + cos φ cos δ cos H (common practice); negative below the horizon. */
+export function cosZenith(latitudeRad: number, declinationRad: number, hourAngleRad: number): number {
+  return Math.sin(latitudeRad) * Math.sin(declinationRad) + Math.cos(latitudeRad) * Math.cos(declinationRad) * Math.cos(hourAngleRad);
+}
+
+/**
+ * Mean solar day, s: the synodic period 2π/|Ω − n| of a prograde spin Ω against the mean motion n;
+ * null for a synchronous (1:1) spin, which has no solar day.
+ */
+export function solarDaySeconds(spinRateRadPerSecond: number, meanMotionRadPerSecond: number): number | null {
+  const difference = Math.abs(spinRateRadPerSecond - meanMotionRadPerSecond);
+  return difference <= 1e-12 * meanMotionRadPerSecond ? null : TWO_PI / difference;
+}
+
+/**
+ * Hour angle of the point at longitude λ (rad), given the body's rotation since periastron
+ * Ω (t − t_p) and the star's direction: H = λ + α★(0) + Ω (t − t_p) − α★(ν). With θ = 0 this is
+ * λ + Ω (t − t_p) − ν: on a locked orbit (Ω = n) the star librates by ν − M ≈ 2e sin M.
+ */
+export function hourAngle(
+  spin: SpinGeometry,
+  longitudeRad: number,
+  secondsSincePeriastron: number,
+  trueAnomalyRad: number,
+): number {
+  const alphaAtPeriastron = stellarRightAscension(spin.obliquityRad, 0, spin.equinoxTrueAnomalyRad);
+  const alpha = stellarRightAscension(spin.obliquityRad, trueAnomalyRad, spin.equinoxTrueAnomalyRad);
+  return longitudeRad + alphaAtPeriastron + spin.rateRadPerSecond * secondsSincePeriastron - alpha;
+}
+
+/** Sub-stellar longitude (rad, wrapped to (−π, π]) at zero obliquity: the point where H = 0. */
+export function substellarLongitude(spinRate: number, secondsSincePeriastron: number, trueAnomalyRad: number): number {
+  const x = trueAnomalyRad - spinRate * secondsSincePeriastron;
+  return x - TWO_PI * Math.round(x / TWO_PI);
+}
