@@ -209,11 +209,18 @@ function guessStart(model: ThermalModel, thermal: ThermalCase): Float64Array {
     const M = E - e * Math.sin(E);
     const weight = (1 - e * Math.cos(E)) / points; // dM/dE over 2π, trapezoidal in E
     model.equilibriumAt(E, eq);
+    const c1 = Math.cos(M);
+    const s1 = Math.sin(M);
+    let ck = 1; // cos kM and sin kM by the angle-addition recurrence
+    let sk = 0;
     for (let k = 0; k <= harmonics; k++) {
       for (let i = 0; i < n; i++) {
-        a[k * n + i]! += eq[i]! * Math.cos(k * M) * weight;
-        b[k * n + i]! += eq[i]! * Math.sin(k * M) * weight;
+        a[k * n + i]! += eq[i]! * ck * weight;
+        b[k * n + i]! += eq[i]! * sk * weight;
       }
+      const next = ck * c1 - sk * s1;
+      sk = sk * c1 + ck * s1;
+      ck = next;
     }
     for (let i = 0; i < n; i++) fourth[i]! += eq[i]! ** 4 * weight;
   }

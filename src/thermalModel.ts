@@ -43,18 +43,20 @@ export interface ThermalModel {
   stiffness: number;
   /** Statistics grid resolution. */
   statsPointsPerOrbit: number;
+  /** True when the absorbed flux has corners (sunrise, sunset, polar night): means then split intervals there. */
+  forcingHasCorners: boolean;
   /** Mean solar day, s; null when synchronous; undefined for regimes without a spin. */
   solarDaySeconds?: number | null;
 }
 
 /**
  * Statistics grid, points per orbit in E. The periastron peak of the integrand has a width in E of
- * about √(2(1 − e)), so the grid grows as that width shrinks (512 points up to e = 0.9, 8192 at
- * e = 0.999); a spinning point needs at least 48 points per solar day on top.
+ * about √(2(1 − e)), so the grid grows as that width shrinks (256 points up to e = 0.6, 512 at
+ * e = 0.9, 8192 at e = 0.999); a spinning point needs at least 48 points per solar day on top.
  */
 function statisticsPointsPerOrbit(eccentricity: number, solarDaysPerOrbit: number): number {
   const width = Math.sqrt(2 * (1 - eccentricity));
-  const forPeriastron = Math.min(8192, Math.max(512, Math.ceil((512 * Math.sqrt(0.2)) / width / 64) * 64));
+  const forPeriastron = Math.min(8192, Math.max(256, Math.ceil((512 * Math.sqrt(0.2)) / width / 64) * 64));
   return Math.min(1 << 20, Math.max(forPeriastron, Math.ceil(48 * solarDaysPerOrbit)));
 }
 
@@ -108,6 +110,7 @@ export function buildThermalModel(thermal: ThermalCase): ThermalModel {
       radiativeTimeSeconds: tau,
       stiffness: stiffnessOf(balance, 1, (E, y) => balance.equilibrium(E, y)),
       statsPointsPerOrbit: statisticsPointsPerOrbit(e, 0),
+      forcingHasCorners: false,
     };
   }
 
@@ -150,6 +153,7 @@ export function buildThermalModel(thermal: ThermalCase): ThermalModel {
     radiativeTimeSeconds: radiativeTimeSeconds(surface.heatCapacityJPerM2K, surface.emissivity, scaleK),
     stiffness: 0,
     statsPointsPerOrbit: statisticsPointsPerOrbit(e, solarDaysPerOrbit),
+    forcingHasCorners: thermal.regime === "band" || thermal.regime === "point",
   };
   if (solarDay !== undefined) model.solarDaySeconds = solarDay;
   model.stiffness = stiffnessOf(balance, cycleOrbits, model.equilibriumAt);

@@ -172,3 +172,45 @@ export function timeInWindow(
   }
   return total;
 }
+
+/**
+ * Time mean of an explicit function f(E) over the grid, Simpson's rule on every interval, each
+ * interval first split where f switches between zero and positive (sunrise and sunset of a
+ * point: f has a corner there, which would cost the plain rule its order). `dtdE` is dt/dE.
+ */
+export function explicitTimeMean(xs: Float64Array, f: (x: number) => number, dtdE: (x: number) => number): number {
+  let sum = 0;
+  let weight = 0;
+  // Simpson on [a, b] with the end values already known.
+  const piece = (a: number, b: number, fa: number, wa: number, fb: number, wb: number): void => {
+    const m = 0.5 * (a + b);
+    const wm = dtdE(m);
+    const h = (b - a) / 6;
+    sum += h * (fa * wa + 4 * f(m) * wm + fb * wb);
+    weight += h * (wa + 4 * wm + wb);
+  };
+  let fa = f(xs[0]!);
+  let wa = dtdE(xs[0]!);
+  for (let k = 0; k + 1 < xs.length; k++) {
+    const a = xs[k]!;
+    const b = xs[k + 1]!;
+    const fb = f(b);
+    const wb = dtdE(b);
+    if (fa > 0 !== fb > 0) {
+      let lo = a;
+      let hi = b;
+      for (let i = 0; i < 60; i++) {
+        const mid = 0.5 * (lo + hi);
+        if (f(mid) > 0 === fa > 0) lo = mid;
+        else hi = mid;
+      }
+      piece(a, lo, fa, wa, f(lo), dtdE(lo));
+      piece(hi, b, f(hi), dtdE(hi), fb, wb);
+    } else {
+      piece(a, b, fa, wa, fb, wb);
+    }
+    fa = fb;
+    wa = wb;
+  }
+  return sum / weight;
+}

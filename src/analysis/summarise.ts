@@ -7,7 +7,7 @@
 import { wienPeakWavelengthM } from "../physics/flux.js";
 import { firstPeriastronSeconds, timeAtEccentric, type Orbit } from "../physics/orbit.js";
 import type { ThermalModel } from "../thermalModel.js";
-import { hermiteExtremum, refinedExtremum, timeInWindow, timeMean } from "./cycleStatistics.js";
+import { explicitTimeMean, hermiteExtremum, refinedExtremum, timeInWindow, timeMean } from "./cycleStatistics.js";
 
 export interface TemperatureStats {
   minK: number;
@@ -31,7 +31,7 @@ export interface StateSummary {
   dampingRatio: number;
   /** Present only when a window is given. */
   timeInRange?: { lowK: number; highK: number; fraction: number; seconds: number };
-  /** Time-mean stellar + internal power absorbed by this state, W m⁻² (before any exchange). */
+  /** Time-mean stellar + internal power absorbed by this state, W m⁻² (before any exchange); at the top level of a two-state model, the mean over both. */
   meanAbsorbedWPerM2: number;
   /** Time-mean emitted power εσT⁴, W m⁻². */
   meanEmittedWPerM2: number;
@@ -75,10 +75,12 @@ export function cycleSummary(input: SummaryInput): CycleSummary {
   const equilibria = new Float64Array(count * n);
   const dy = new Float64Array(n);
   const eq = new Float64Array(n);
+  const y = new Float64Array(n);
   for (let k = 0; k < count; k++) {
     const E = statsE[k]!;
     dtdE[k] = model.timePerAnomaly(E);
-    model.system.derivative(E, statsY.subarray(k * n, k * n + n), dy);
+    for (let i = 0; i < n; i++) y[i] = statsY[k * n + i]!;
+    model.system.derivative(E, y, dy);
     model.equilibriumAt(E, eq);
     for (let i = 0; i < n; i++) {
       derivatives[k * n + i] = dy[i]!;
@@ -104,6 +106,11 @@ export function cycleSummary(input: SummaryInput): CycleSummary {
     energyBalanceResidual: (totalAbsorbed - totalEmitted) / totalAbsorbed,
   };
   if (model.solarDaySeconds !== undefined) summary.solarDaySeconds = model.solarDaySeconds;
+  if (n > 1) {
+    // The whole body: the mean over its states (equal areas).
+    summary.meanAbsorbedWPerM2 = totalAbsorbed / n;
+    summary.meanEmittedWPerM2 = totalEmitted / n;
+  }
   if (model.stateNames[0] === "day" && states.length === 2) {
     summary.day = states[0]!;
     summary.night = states[1]!;
@@ -124,14 +131,14 @@ function stateSummary(
   const t = new Float64Array(count);
   const d = new Float64Array(count);
   const teq = new Float64Array(count);
-  const absorbed = new Float64Array(count);
   const emitted = new Float64Array(count);
+  const absorbed = new Float64Array(count);
   for (let k = 0; k < count; k++) {
+    absorbed[k] = model.absorbedAt(statsE[k]!, state);
     const T = statsY[k * n + state]!;
     t[k] = T;
     d[k] = derivatives[k * n + state]!;
     teq[k] = equilibria[k * n + state]!;
-    absorbed[k] = model.absorbedAt(statsE[k]!, state) + model.internalFluxWPerM2;
     const T2 = T * T;
     emitted[k] = model.emissionCoefficient * T2 * T2;
   }
@@ -145,7 +152,10 @@ function stateSummary(
   const eqMax = refinedExtremum(statsE, teq, equilibriumOfState, 1);
   const eqMin = refinedExtremum(statsE, teq, equilibriumOfState, -1);
   const temperature = stats(tMin.value, tMax.value, timeMean(t, dtdE));
-  const equilibrium = stats(eqMin.value, eqMax.value, timeMean(teq, dtdE));
+  const timePerAnomaly = (E: number) => model.timePerAnomaly(E);
+  // Smooth forcing: the trapezoidal rule on the samples converges geometrically; corners need splitting.
+  const corners = model.forcingHasCorners;
+  const equilibrium = stats(eqMin.value, eqMax.value, corners ? explicitTimeMean(statsE, equilibriumOfState, timePerAnomaly) : timeMean(teq, dtdE));
 
   const periodSeconds = orbit.periodSeconds;
   const timeOfMaxSeconds = timeAtEccentric(orbit, tMax.x);
@@ -160,7 +170,8 @@ function stateSummary(
     timeOfMinSeconds,
     lagSeconds,
     dampingRatio,
-    meanAbsorbedWPerM2: timeMean(absorbed, dtdE),
+    meanAbsorbedWPerM2:
+      (corners ? explicitTimeMean(statsE, (E) => model.absorbedAt(E, state), timePerAnomaly) : timeMean(absorbed, dtdE)) + model.internalFluxWPerM2,
     meanEmittedWPerM2: timeMean(emitted, dtdE),
     wienPeakAtMinM: wienPeakWavelengthM(temperature.minK),
     wienPeakAtMaxM: wienPeakWavelengthM(temperature.maxK),

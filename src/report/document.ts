@@ -33,6 +33,17 @@ export function resolvedScenarioRecord(resolved: ResolvedScenario) {
     },
     regime: thermal.regime,
     thresholdsK: thermal.windowK ? [...thermal.windowK] : null,
+    spin: thermal.spin
+      ? {
+          rateRadPerSecond: thermal.spin.rateRadPerSecond,
+          siderealPeriodSeconds: (2 * Math.PI) / thermal.spin.rateRadPerSecond,
+          orbitRatio: thermal.spin.ratio ? `${thermal.spin.ratio.spin}:${thermal.spin.ratio.orbit}` : null,
+          obliquityRad: thermal.spin.obliquityRad,
+          equinoxTrueAnomalyRad: thermal.spin.equinoxTrueAnomalyRad,
+        }
+      : null,
+    surface: thermal.location ?? null,
+    exchange: thermal.exchange ?? null,
   };
 }
 
@@ -64,6 +75,11 @@ export function resultDocument(resolved: ResolvedScenario, sim: Simulation, with
       temperatureK: Array.from(s.temperatureK),
       equilibriumK: Array.from(s.equilibriumK),
     };
+    for (const state of s.states.slice(1)) {
+      doc.series[`temperature_${state.name}K`] = Array.from(state.temperatureK);
+      doc.series[`equilibrium_${state.name}K`] = Array.from(state.equilibriumK);
+      doc.series[`absorbed_${state.name}WPerM2`] = Array.from(state.absorbedWPerM2);
+    }
   }
   return doc;
 }

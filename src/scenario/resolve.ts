@@ -9,7 +9,7 @@ import type { ThermalCase } from "../model.js";
 import { layerHeatCapacity, MATERIALS, type MaterialName } from "../physics/materials.js";
 import { keplerPeriodSeconds } from "../physics/orbit.js";
 import { luminosityFromRadiusTemperature, massParameter } from "../physics/star.js";
-import { scenarioSchema, type ParsedScenario } from "./schema.js";
+import { parseRatio, scenarioSchema, type ParsedScenario } from "./schema.js";
 
 /** How the heat capacity was obtained, kept for the report. */
 export type HeatCapacityOrigin =
@@ -131,6 +131,12 @@ function fromParsed(s: ParsedScenario, raw: unknown): ResolvedScenario {
   } else {
     problem("body.heatCapacity", "an areal heat capacity, or body.layer {material, thickness}");
   }
+  if (s.body.recirculation !== undefined && s.body.exchangeCoefficient !== undefined) {
+    problem("body.exchangeCoefficient", "either body.recirculation or body.exchangeCoefficient, not both");
+  }
+  if (s.spin?.period !== undefined && s.spin.orbitRatio !== undefined) {
+    problem("spin.orbitRatio", "either spin.period or spin.orbitRatio, not both");
+  }
   if (s.thresholds && !(s.thresholds[0] < s.thresholds[1])) {
     problem("thresholds", "a [low, high] pair with low < high");
   }
@@ -161,6 +167,20 @@ function fromParsed(s: ParsedScenario, raw: unknown): ResolvedScenario {
     },
     regime: s.regime ?? "global",
     ...(s.thresholds ? { windowK: [s.thresholds[0], s.thresholds[1]] as const } : {}),
+    exchange: {
+      recirculation: s.body.recirculation ?? 0,
+      coefficientWPerM2K: s.body.exchangeCoefficient ?? 0,
+      weighting: s.body.daysideWeighting ?? "uniform",
+    },
+    location: { latitudeRad: s.surface?.latitude ?? 0, longitudeRad: s.surface?.longitude ?? 0 },
+  };
+  const n = (2 * Math.PI) / periodSeconds;
+  const ratio = s.spin?.orbitRatio !== undefined ? parseRatio(s.spin.orbitRatio) : s.spin?.period === undefined ? { spin: 1, orbit: 1 } : undefined;
+  thermal.spin = {
+    rateRadPerSecond: s.spin?.period !== undefined ? (2 * Math.PI) / s.spin.period : (n * ratio!.spin) / ratio!.orbit,
+    ...(ratio ? { ratio } : {}),
+    obliquityRad: s.spin?.obliquity ?? 0,
+    equinoxTrueAnomalyRad: s.spin?.axisLongitude ?? 0,
   };
   return {
     thermal,

@@ -4,7 +4,8 @@
  * Every object is strict (unknown keys are errors) and every message says what is allowed.
  */
 import { z } from "zod";
-import { LUMPED_REGIMES } from "../physics/flux.js";
+import { REGIMES } from "../model.js";
+import { DAYSIDE_WEIGHTINGS } from "../physics/dayNight.js";
 import { MATERIAL_NAMES } from "../physics/materials.js";
 import { parseQuantity, UNIT_TABLES, type QuantityKind } from "./units.js";
 
@@ -71,8 +72,58 @@ export const bodySchema = z
     heatCapacity: quantity("arealHeatCapacity", "Areal heat capacity C", positive("J/m2/K")).optional(),
     layer: layerSchema.optional(),
     internalFlux: quantity("flux", "Internal heat flux q; default 0", nonNegative("W/m2")).optional(),
+    recirculation: boundedNumber(
+      "daynight: recirculation efficiency ε ∈ [0, 1], the fraction of absorbed power carried to the night side",
+      (r) => r >= 0 && r <= 1,
+      "a number with 0 ≤ ε ≤ 1",
+    ).optional(),
+    exchangeCoefficient: quantity(
+      "heatTransferCoefficient",
+      "daynight: heat exchanged per kelvin of day–night difference",
+      nonNegative("W/m2/K"),
+    ).optional(),
+    daysideWeighting: z
+      .enum(DAYSIDE_WEIGHTINGS, { error: `one of ${DAYSIDE_WEIGHTINGS.join(", ")}` })
+      .optional()
+      .describe("daynight: uniform dayside (f = 1/2, conserves energy) or flux-weighted (f = 2/3, Cowan & Agol 2011); default uniform"),
   })
   .describe("The body's surface: albedo, emissivity, heat capacity (direct, or a layer of a material)");
+
+const RATIO = /^\s*(\d+)\s*:\s*(\d+)\s*$/;
+
+export const spinSchema = z
+  .strictObject({
+    period: quantity("time", "Sidereal rotation period", positive("s")).optional(),
+    orbitRatio: z
+      .string({ error: 'a spin:orbit ratio such as "1:1" or "3:2"' })
+      .refine((r) => RATIO.test(r) && Number(RATIO.exec(r)![1]) > 0 && Number(RATIO.exec(r)![2]) > 0, {
+        message: 'a spin:orbit ratio of positive whole numbers such as "1:1" or "3:2"',
+      })
+      .describe('Spin–orbit resonance "p:q": p rotations every q orbits'),
+    obliquity: quantity("angle", "Obliquity of the spin axis to the orbit normal, 0–180°", {
+      ok: (v) => v >= 0 && v <= Math.PI,
+      allowed: "an angle from 0 to 180 deg",
+    }),
+    axisLongitude: quantity("angle", "True anomaly at the northern spring equinox (orients the axis relative to periastron)"),
+  })
+  .partial()
+  .describe("The spin: period or orbitRatio (default synchronous), obliquity (default 0), axisLongitude (default 0)");
+
+export const locationSchema = z
+  .strictObject({
+    latitude: quantity("angle", "Latitude, −90° to 90°", {
+      ok: (v) => v >= -Math.PI / 2 - 1e-12 && v <= Math.PI / 2 + 1e-12,
+      allowed: "an angle from -90 to 90 deg",
+    }),
+    longitude: quantity("angle", "Longitude east of the meridian under the star at periastron"),
+  })
+  .partial()
+  .describe("A place on the surface (band: latitude; point: latitude and longitude); default 0, 0");
+
+export function parseRatio(text: string): { spin: number; orbit: number } {
+  const m = RATIO.exec(text)!;
+  return { spin: Number(m[1]), orbit: Number(m[2]) };
+}
 
 export const scenarioSchema = z
   .strictObject({
@@ -82,9 +133,11 @@ export const scenarioSchema = z
     orbit: orbitSchema,
     body: bodySchema,
     regime: z
-      .enum(LUMPED_REGIMES, { error: `one of ${LUMPED_REGIMES.join(", ")}` })
+      .enum(REGIMES, { error: `one of ${REGIMES.join(", ")}` })
       .optional()
-      .describe("Heat-sharing regime: global (f = 1/4), dayside (1/2), substellar (1); default global"),
+      .describe("Regime: global (f = 1/4), dayside (1/2), substellar (1), daynight (two hemispheres), band (a latitude), point (a place); default global"),
+    spin: spinSchema.optional(),
+    surface: locationSchema.optional(),
     thresholds: z
       .tuple([quantity("temperature", "Low end", positive("K")), quantity("temperature", "High end", positive("K"))], {
         error: "a [low, high] pair of temperatures",
