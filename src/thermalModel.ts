@@ -54,10 +54,12 @@ export interface ThermalModel {
  * about √(2(1 − e)), so the grid grows as that width shrinks (256 points up to e = 0.6, 512 at
  * e = 0.9, 8192 at e = 0.999); a spinning point needs at least 48 points per solar day on top.
  */
-function statisticsPointsPerOrbit(eccentricity: number, solarDaysPerOrbit: number): number {
+function statisticsPointsPerOrbit(eccentricity: number, solarDaysPerOrbit: number, corners: boolean): number {
   const width = Math.sqrt(2 * (1 - eccentricity));
   const forPeriastron = Math.min(8192, Math.max(256, Math.ceil((512 * Math.sqrt(0.2)) / width / 64) * 64));
-  return Math.min(1 << 20, Math.max(forPeriastron, Math.ceil(48 * solarDaysPerOrbit)));
+  // Sunrise and sunset put corners in the integrands, where the rules lose their order: more points.
+  const forCorners = corners ? 2048 : 0;
+  return Math.min(1 << 20, Math.max(forPeriastron, forCorners, Math.ceil(48 * solarDaysPerOrbit)));
 }
 
 function gcd(a: number, b: number): number {
@@ -109,7 +111,7 @@ export function buildThermalModel(thermal: ThermalCase): ThermalModel {
       meanFluxEquilibriumK: scaleK,
       radiativeTimeSeconds: tau,
       stiffness: stiffnessOf(balance, 1, (E, y) => balance.equilibrium(E, y)),
-      statsPointsPerOrbit: statisticsPointsPerOrbit(e, 0),
+      statsPointsPerOrbit: statisticsPointsPerOrbit(e, 0, false),
       forcingHasCorners: false,
     };
   }
@@ -136,6 +138,7 @@ export function buildThermalModel(thermal: ThermalCase): ThermalModel {
   }
   const balance = new LumpedBalance(orbit, surface, forcing);
   const scaleK = teqOf(forcing.meanAbsorbedWPerM2);
+  const corners = thermal.regime === "band" || thermal.regime === "point";
   const model: ThermalModel = {
     system: balance,
     stateNames: ["surface"],
@@ -152,8 +155,8 @@ export function buildThermalModel(thermal: ThermalCase): ThermalModel {
     meanFluxEquilibriumK: scaleK,
     radiativeTimeSeconds: radiativeTimeSeconds(surface.heatCapacityJPerM2K, surface.emissivity, scaleK),
     stiffness: 0,
-    statsPointsPerOrbit: statisticsPointsPerOrbit(e, solarDaysPerOrbit),
-    forcingHasCorners: thermal.regime === "band" || thermal.regime === "point",
+    statsPointsPerOrbit: statisticsPointsPerOrbit(e, solarDaysPerOrbit, corners),
+    forcingHasCorners: corners,
   };
   if (solarDay !== undefined) model.solarDaySeconds = solarDay;
   model.stiffness = stiffnessOf(balance, cycleOrbits, model.equilibriumAt);

@@ -177,3 +177,95 @@ describe("bad input: one line per problem, exit status 2, no stack trace", () =>
     expect(r.stderr).toContain("unknown option '--frobnicate'");
   });
 });
+
+describe("calorbit compare and insolation", () => {
+  it("puts every regime in one table, and its JSON rows agree with single-regime runs", () => {
+    const path = join(SCENARIOS, "korvath-locked.yaml");
+    const table = calorbit("compare", path);
+    expect(table.status).toBe(0);
+    for (const label of ["global", "dayside", "substellar", "daynight day", "daynight night", "band", "point"]) {
+      expect(table.stdout).toMatch(new RegExp(`^${label}\\s+\\d`, "m"));
+    }
+    const doc = JSON.parse(calorbit("compare", path, "--json", "--regimes", "global,daynight,point").stdout);
+    expect(doc.results.map((r: { regime: string }) => r.regime)).toEqual(["global", "daynight", "point"]);
+    for (const row of doc.results) {
+      const single = scenarioFile(`single-${row.regime}.yaml`, readFileSync(path, "utf8").replace("regime: daynight", `regime: ${row.regime}`));
+      const alone = JSON.parse(calorbit("run", single, "--json").stdout);
+      expect(row.summary.temperature.minK).toBeCloseTo(alone.summary.temperature.minK, 6);
+      expect(row.summary.temperature.maxK).toBeCloseTo(alone.summary.temperature.maxK, 6);
+      expect(row.summary.temperature.meanK).toBeCloseTo(alone.summary.temperature.meanK, 6);
+    }
+    expect(doc.results[1].summary.day.temperature.minK).toBeGreaterThan(doc.results[1].summary.night.temperature.maxK);
+  });
+
+  it("writes one column per regime on a shared time axis, tiling shorter cycles", () => {
+    const out = join(dir, "compare.csv");
+    const r = calorbit("compare", join(SCENARIOS, "miradel-resonant.yaml"), "--regimes", "global,point", "--csv", out, "--samples", "201");
+    expect(r.status).toBe(0);
+    const rows = readFileSync(out, "utf8").trim().split("\n").filter((l) => !l.startsWith("#"));
+    expect(rows[0]).toBe("time_s,T_global_K,Teq_global_K,T_point_K,Teq_point_K");
+    expect(rows).toHaveLength(202);
+    // The global regime repeats each orbit; the 3:2 point needs two.
+    const col = (j: number) => rows.slice(1).map((l) => Number(l.split(",")[j]));
+    expect(col(1)[0]).toBeCloseTo(col(1)[100]!, 9);
+    expect(col(3)[0]).not.toBeCloseTo(col(3)[100]!, 1);
+  });
+
+  it("reports a regime that cannot run instead of failing the comparison", () => {
+    const doc = JSON.parse(calorbit("compare", scenarioFile("nonight.yaml", validScenario), "--json", "--regimes", "global,daynight").stdout);
+    expect(doc.results[0].summary).toBeDefined();
+    expect(doc.results[1].error).toMatch(/recirculation/);
+  });
+
+  it("rejects an unknown regime in --regimes", () => {
+    const r = calorbit("compare", "--regimes", "global,sideways");
+    expect(r.status).toBe(2);
+    expect(r.stderr).toMatch(/^calorbit: --regimes: given "global,sideways"; allowed: a comma-separated list of /m);
+  });
+
+  it("prints the seasonal insolation map as latitude × orbital phase (Berger 1978 daily means)", () => {
+    const r = calorbit("insolation", join(SCENARIOS, "ilvane-tilted.yaml"), "--latitudes", "19", "--phases", "12");
+    expect(r.status).toBe(0);
+    const rows = r.stdout.trim().split("\n").filter((l) => !l.startsWith("#"));
+    expect(rows).toHaveLength(20);
+    expect(rows[0]!.split(",")).toHaveLength(13);
+    const values = rows.slice(1).flatMap((l) => l.split(",").slice(1).map(Number));
+    expect(Math.min(...values)).toBe(0); // polar night somewhere at 38° obliquity
+  });
+});
+
+describe("scenario keys for spin, surface and exchange", () => {
+  it("rejects a malformed orbit ratio, a latitude past the pole and both exchange forms at once", () => {
+    const text = validScenario
+      .replace("thresholds", 'spin: { orbitRatio: "3/2" }\nsurface: { latitude: 95 deg }\nthresholds')
+      .replace("heatCapacity: 1e8 J/m2/K", "heatCapacity: 1e8 J/m2/K, recirculation: 0.2, exchangeCoefficient: 1");
+    const r = calorbit("check", scenarioFile("spin-bad.yaml", text));
+    expect(r.status).toBe(2);
+    expect(r.stderr).toMatchInlineSnapshot(`
+      "calorbit: spin.orbitRatio: given "3/2"; allowed: a spin:orbit ratio of positive whole numbers such as "1:1" or "3:2"
+      calorbit: surface.latitude: given "95 deg"; allowed: an angle from -90 to 90 deg
+      "
+    `);
+    const both = calorbit("check", scenarioFile("both.yaml", validScenario.replace("heatCapacity: 1e8 J/m2/K", "heatCapacity: 1e8 J/m2/K, recirculation: 0.2, exchangeCoefficient: 1")));
+    expect(both.stderr).toMatch(/^calorbit: body\.exchangeCoefficient: given 1; allowed: either body\.recirculation or body\.exchangeCoefficient, not both$/m);
+  });
+
+  it("reports a point's solar day and a daynight run's two hemispheres in JSON", () => {
+    const point = JSON.parse(calorbit("run", join(SCENARIOS, "miradel-resonant.yaml"), "--json").stdout);
+    expect(point.summary.solarDaySeconds / point.summary.periodSeconds).toBeCloseTo(2, 9);
+    expect(point.summary.temperature.maxK).toBeGreaterThan(point.summary.temperature.minK);
+    const dn = JSON.parse(calorbit("run", join(SCENARIOS, "korvath-locked.yaml"), "--json").stdout);
+    for (const side of ["day", "night"]) {
+      for (const key of ["minK", "maxK", "meanK"]) expect(typeof dn.summary[side].temperature[key]).toBe("number");
+    }
+    expect(dn.summary.temperature).toEqual(dn.summary.day.temperature);
+  });
+
+  it("writes both hemispheres and their absorbed flux to the run CSV", () => {
+    const out = join(dir, "dn.csv");
+    calorbit("run", join(SCENARIOS, "korvath-locked.yaml"), "--csv", out, "--samples", "10");
+    const header = readFileSync(out, "utf8").split("\n").find((l) => !l.startsWith("#"))!;
+    expect(header).toContain("absorbed_flux_W_m2");
+    expect(header).toContain("temperature_night_K,equilibrium_night_K,absorbed_flux_night_W_m2");
+  });
+});

@@ -25,7 +25,7 @@ export interface StateSummary {
   /** Time from the start of the run to the temperature maximum / minimum (last cycle), s. */
   timeOfMaxSeconds: number;
   timeOfMinSeconds: number;
-  /** Delay of the temperature maximum after the periastron before it, in [0, P); null on a circular orbit. */
+  /** Delay of the temperature maximum after the periastron before it, in [0, P); null on a circular orbit or when T does not swing. */
   lagSeconds: number | null;
   /** Temperature swing over equilibrium swing; 1 when the equilibrium does not swing. */
   dampingRatio: number;
@@ -161,7 +161,9 @@ function stateSummary(
   const timeOfMaxSeconds = timeAtEccentric(orbit, tMax.x);
   const timeOfMinSeconds = timeAtEccentric(orbit, tMin.x);
   const circular = orbit.eccentricity === 0;
-  const lagSeconds = circular ? null : positiveModulo(timeOfMaxSeconds - firstPeriastronSeconds(orbit), periodSeconds);
+  // No lag on a circular orbit, nor for a state that does not swing (its "maximum" is anywhere).
+  const flat = temperature.swingK <= 1e-9 * temperature.maxK;
+  const lagSeconds = circular || flat ? null : positiveModulo(timeOfMaxSeconds - firstPeriastronSeconds(orbit), periodSeconds);
   const dampingRatio = equilibrium.swingK <= 1e-12 * equilibrium.maxK ? 1 : temperature.swingK / equilibrium.swingK;
   const summary: StateSummary = {
     temperature,

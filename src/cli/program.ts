@@ -16,6 +16,10 @@ import { parseQuantity, type QuantityKind } from "../scenario/units.js";
 import { DEFAULT_RELATIVE_TOLERANCE, DEFAULT_SAMPLES, simulate, type SimulateOptions } from "../simulate.js";
 import { VERSION } from "../version.js";
 import { loadScenario, writeFileAtomic } from "./io.js";
+import { insolationMap } from "../analysis/insolationMap.js";
+import { compareRegimes } from "../compare.js";
+import { REGIMES, type Regime } from "../model.js";
+import { compareCsv, compareDocument, compareTable, insolationCsv } from "../report/compareReport.js";
 
 const EXIT_BAD_INPUT = 2;
 const EXIT_FAILURE = 1;
@@ -141,6 +145,48 @@ function equilibriumCommand(flags: EquilibriumFlags): void {
   );
 }
 
+interface CompareFlags {
+  regimes: string;
+  json?: boolean;
+  csv?: string;
+  samples: string;
+  tolerance: string;
+}
+
+function compareCommand(scenarioPath: string | undefined, flags: CompareFlags): void {
+  const regimes = flags.regimes.split(",").map((r) => r.trim()).filter((r) => r.length > 0);
+  const unknown = regimes.filter((r) => !(REGIMES as readonly string[]).includes(r));
+  if (regimes.length === 0 || unknown.length > 0) {
+    throw usage("--regimes", JSON.stringify(flags.regimes), `a comma-separated list of ${REGIMES.join(", ")}`);
+  }
+  const samples = integerFlag("--samples", flags.samples, 2, 10_000_000);
+  const relativeTolerance = toleranceFlag(flags.tolerance);
+  const { resolved } = loadScenario(scenarioPath);
+  const comparison = compareRegimes(resolved.thermal, regimes as Regime[], { samples, relativeTolerance });
+  if (flags.csv !== undefined) writeFileAtomic(flags.csv, compareCsv(resolved, comparison));
+  if (flags.json) process.stdout.write(JSON.stringify(compareDocument(resolved, comparison), null, 2) + "\n");
+  else process.stdout.write(compareTable(resolved, comparison));
+}
+
+interface InsolationFlags {
+  latitudes: string;
+  phases: string;
+  out?: string;
+}
+
+function insolationCommand(scenarioPath: string | undefined, flags: InsolationFlags): void {
+  const latitudes = integerFlag("--latitudes", flags.latitudes, 2, 1801);
+  const phases = integerFlag("--phases", flags.phases, 1, 100_000);
+  const { resolved } = loadScenario(scenarioPath);
+  const csv = insolationCsv(resolved, insolationMap(resolved.thermal, latitudes, phases));
+  if (flags.out !== undefined) {
+    writeFileAtomic(flags.out, csv);
+    process.stdout.write(`insolation map written to ${flags.out} (${latitudes} latitudes × ${phases} phases)\n`);
+  } else {
+    process.stdout.write(csv);
+  }
+}
+
 export function buildProgram(): Command {
   const program = new Command();
   program
@@ -172,6 +218,37 @@ Examples:
   calorbit run my.yaml --from 150K --orbits 5    spin-up from a cold start`,
     )
     .action((scenario: string | undefined, flags: RunFlags) => runCommand(scenario, flags));
+
+  program
+    .command("compare")
+    .description("run one scenario under several regimes and put them side by side")
+    .argument("[scenario]", "scenario file (YAML or JSON); the bundled demo when omitted")
+    .option("--regimes <list>", "comma-separated regimes", REGIMES.join(","))
+    .option("--json", 'print { "results": [ { "regime", "summary" }, … ] }')
+    .option("--csv <file>", "write T and T_eq of every regime on a shared time axis")
+    .option("--samples <n>", "points on the shared time axis", String(DEFAULT_SAMPLES))
+    .option("--tolerance <x>", "relative tolerance of the temperatures", String(DEFAULT_RELATIVE_TOLERANCE))
+    .addHelpText(
+      "after",
+      `
+Regimes without the keys they use take defaults: a synchronous spin with no obliquity, the
+place at latitude 0 and longitude 0, no day–night exchange.
+
+Examples:
+  calorbit compare scenarios/korvath-locked.yaml
+  calorbit compare my.yaml --regimes global,daynight,point --csv side-by-side.csv`,
+    )
+    .action((scenario: string | undefined, flags: CompareFlags) => compareCommand(scenario, flags));
+
+  program
+    .command("insolation")
+    .description("daily-mean insolation as a latitude × orbital-phase table (CSV), from the scenario's orbit and spin axis")
+    .argument("[scenario]", "scenario file (YAML or JSON); the bundled demo when omitted")
+    .option("--latitudes <n>", "latitudes from −90° to 90°", "19")
+    .option("--phases <n>", "orbital phases from periastron, equal steps in time", "36")
+    .option("--out <file>", "write the table to a file instead of stdout")
+    .addHelpText("after", `\nExample:\n  calorbit insolation scenarios/ilvane-tilted.yaml --latitudes 37 --phases 72 --out map.csv`)
+    .action((scenario: string | undefined, flags: InsolationFlags) => insolationCommand(scenario, flags));
 
   program
     .command("check")

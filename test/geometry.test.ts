@@ -1,0 +1,185 @@
+import { describe, expect, it } from "vitest";
+import { ASTRONOMICAL_UNIT_M, SOLAR_LUMINOSITY_W, STEFAN_BOLTZMANN } from "../src/constants.js";
+import type { ThermalCase } from "../src/model.js";
+import { DayNightBalance } from "../src/physics/dayNight.js";
+import { equilibriumTemperature, stellarFlux } from "../src/physics/flux.js";
+import { dailyMeanInsolation, solarDaySeconds, substellarLongitude } from "../src/physics/geometry.js";
+import { trueAnomalyFromEccentric, eccentricAnomaly } from "../src/physics/kepler.js";
+import { simulate } from "../src/simulate.js";
+import { nominalCase } from "./helpers.js";
+
+const deg = Math.PI / 180;
+const YEAR = 3.15576e7;
+
+function withExchange(base: ThermalCase, recirculation: number, weighting: "uniform" | "flux", coefficient = 0): ThermalCase {
+  return { ...base, regime: "daynight", exchange: { recirculation, coefficientWPerM2K: coefficient, weighting } };
+}
+
+describe("day/night hemispheres", () => {
+  // Cowan & Agol 2011, ApJ 729, 54, eqs. 4–5, for the IAU 2015 B3 nominal star at 1 au, A = 0
+  // (T₀ = T★√(R★/a) = 393.62 K): ε = 0 → T_day 355.67 K; ε = 0.5 → 323.87 / 234.05 K; ε = 1 → 278.33 K.
+  // Values derived in double precision from those equations (../shared/REFERENCES.md).
+  const orbit = nominalCase({}).orbit;
+  const surface = { albedo: 0, emissivity: 1, heatCapacityJPerM2K: 1e7, internalFluxWPerM2: 0 };
+  const s = stellarFlux(SOLAR_LUMINOSITY_W, ASTRONOMICAL_UNIT_M);
+  const t0 = Math.sqrt(Math.sqrt(s / STEFAN_BOLTZMANN));
+
+  it("has T₀ = 393.62 K for the nominal star at 1 au", () => {
+    expect(t0).toBeCloseTo(393.62, 2);
+  });
+
+  for (const eps of [0, 0.25, 0.5, 0.75, 1]) {
+    it(`reproduces Cowan & Agol's flux-weighted limits at ε = ${eps} to 1e-9`, () => {
+      const balance = new DayNightBalance(orbit, surface, SOLAR_LUMINOSITY_W, { recirculation: eps, coefficientWPerM2K: 0, weighting: "flux" });
+      const out = new Float64Array(2);
+      balance.equilibrium(0, out);
+      expect(Math.abs(out[0]! / (t0 * (2 / 3 - (5 * eps) / 12) ** 0.25) - 1)).toBeLessThan(1e-9);
+      if (eps > 0) expect(Math.abs(out[1]! / (t0 * (eps / 4) ** 0.25) - 1)).toBeLessThan(1e-9);
+    });
+  }
+
+  it("gives the published example temperatures (Cowan & Agol 2011, derived)", () => {
+    const out = new Float64Array(2);
+    new DayNightBalance(orbit, surface, SOLAR_LUMINOSITY_W, { recirculation: 0, coefficientWPerM2K: 0, weighting: "flux" }).equilibrium(0, out);
+    expect(out[0]).toBeCloseTo(355.67, 2);
+    new DayNightBalance(orbit, surface, SOLAR_LUMINOSITY_W, { recirculation: 0.5, coefficientWPerM2K: 0, weighting: "flux" }).equilibrium(0, out);
+    expect(out[0]).toBeCloseTo(323.87, 2);
+    expect(out[1]).toBeCloseTo(234.05, 2);
+    new DayNightBalance(orbit, surface, SOLAR_LUMINOSITY_W, { recirculation: 0, coefficientWPerM2K: 0, weighting: "uniform" }).equilibrium(0, out);
+    expect(out[0]).toBeCloseTo(330.99, 2); // the uniform-dayside value (../shared/REFERENCES.md)
+  });
+
+  it("settles to those limits on a circular orbit (periodic solve of the two-state system)", () => {
+    const sim = simulate(withExchange(nominalCase({ e: 0 }), 0.5, "flux"), { samples: 0 });
+    expect(Math.abs(sim.summary.day!.temperature.meanK / (t0 * (2 / 3 - 5 / 24) ** 0.25) - 1)).toBeLessThan(1e-8);
+    expect(Math.abs(sim.summary.night!.temperature.meanK / (t0 * (0.5 / 4) ** 0.25) - 1)).toBeLessThan(1e-8);
+    expect(sim.summary.day!.temperature.meanK).toBeCloseTo(323.87, 2);
+    expect(sim.summary.night!.temperature.meanK).toBeCloseTo(234.05, 2);
+    expect(sim.summary.temperature).toEqual(sim.summary.day!.temperature);
+  });
+
+  it("puts both sides at the global temperature when ε = 1", () => {
+    const base = nominalCase({ e: 0.3, heatCapacity: 5e7, albedo: 0.3 });
+    const global = simulate(base, { samples: 0 });
+    const dn = simulate(withExchange(base, 1, "uniform"), { samples: 0 });
+    for (const side of [dn.summary.day!, dn.summary.night!]) {
+      expect(side.temperature.minK).toBeCloseTo(global.summary.temperature.minK, 5);
+      expect(side.temperature.maxK).toBeCloseTo(global.summary.temperature.maxK, 5);
+    }
+  });
+
+  for (const [what, eps, k] of [["a recirculation efficiency", 0.4, 0], ["an exchange coefficient", 0, 2.5]] as const) {
+    it(`conserves energy over both hemispheres with ${what} on an eccentric orbit (uniform dayside)`, () => {
+      const sim = simulate(withExchange(nominalCase({ e: 0.3, heatCapacity: 3e7 }), eps, "uniform", k), { samples: 0 });
+      expect(Math.abs(sim.summary.energyBalanceResidual)).toBeLessThan(1e-8);
+      // Total absorbed over the two hemispheres is the whole-body (f = 1/4) value (common practice).
+      const global = simulate(nominalCase({ e: 0.3, heatCapacity: 3e7 }), { samples: 0 });
+      expect(sim.summary.meanAbsorbedWPerM2 / global.summary.meanAbsorbedWPerM2).toBeCloseTo(1, 9);
+    });
+  }
+
+  it("solves the exchange-coefficient equilibrium exactly (both balance equations hold)", () => {
+    const balance = new DayNightBalance(orbit, surface, SOLAR_LUMINOSITY_W, { recirculation: 0, coefficientWPerM2K: 3, weighting: "uniform" });
+    const out = new Float64Array(2);
+    balance.equilibrium(0, out);
+    const [td, tn] = [out[0]!, out[1]!];
+    const h = 3 * (td - tn);
+    expect(Math.abs(s / 2 - STEFAN_BOLTZMANN * td ** 4 - h) / s).toBeLessThan(1e-12);
+    expect(Math.abs(h - STEFAN_BOLTZMANN * tn ** 4) / s).toBeLessThan(1e-12);
+  });
+});
+
+describe("daily-mean insolation and latitude bands", () => {
+  // Berger 1978, J. Atmos. Sci. 35, 2362 (formula from memory); values derived with S₀ = 1361 W m⁻², r = a.
+  const cases: Array<[string, number, number, number]> = [
+    ["the equator at equinox", 0, 0, 433.22],
+    ["45° at equinox", 45, 0, 306.33],
+    ["45° at δ = 23.44°", 45, 23.44, 499.32],
+    ["the pole at δ = 23.44°", 90, 23.44, 541.39],
+    ["60° at δ = −23.44°", 60, -23.44, 23.59],
+  ];
+  for (const [where, lat, decl, expected] of cases) {
+    it(`gives ${expected} W m⁻² at ${where}`, () => {
+      expect(dailyMeanInsolation(1361, lat * deg, decl * deg)).toBeCloseTo(expected, 2);
+    });
+  }
+  it("is zero in polar night", () => {
+    expect(dailyMeanInsolation(1361, 80 * deg, -23.44 * deg)).toBe(0);
+    expect(dailyMeanInsolation(1361, -90 * deg, 10 * deg)).toBe(0);
+  });
+
+  it("gives the pole an annual mean of S₀ sin θ / π through the band model (derived from the daily-mean formula)", () => {
+    // At the pole Q = S₀ sin δ in polar day and 0 in polar night; over a circular year
+    // ⟨max(0, sin θ sin λ)⟩ = sin θ / π. For θ = 23.44°, S₀ = 1361.17: 172.35 W m⁻² (the familiar
+    // ≈ 173 W m⁻² of polar climatology, common practice).
+    const theta = 23.44 * deg;
+    const thermal: ThermalCase = {
+      ...nominalCase({ e: 0, heatCapacity: 2e8 }),
+      regime: "band",
+      location: { latitudeRad: 90 * deg, longitudeRad: 0 },
+      spin: { rateRadPerSecond: 7.29e-5, obliquityRad: theta, equinoxTrueAnomalyRad: 0 },
+    };
+    const sim = simulate(thermal, { samples: 0 });
+    const s0 = stellarFlux(SOLAR_LUMINOSITY_W, ASTRONOMICAL_UNIT_M);
+    expect(Math.abs(sim.summary.meanAbsorbedWPerM2 / ((s0 * Math.sin(theta)) / Math.PI) - 1)).toBeLessThan(1e-6);
+    expect(sim.summary.meanAbsorbedWPerM2).toBeCloseTo(172.35, 1);
+    expect(Math.abs(sim.summary.energyBalanceResidual)).toBeLessThan(1e-8);
+  });
+});
+
+describe("surface points on a spinning body", () => {
+  const locked = (lonDeg: number, q = 0): ThermalCase => ({
+    ...nominalCase({ e: 0, heatCapacity: 1e6, internalFlux: q }),
+    regime: "point",
+    location: { latitudeRad: 0, longitudeRad: lonDeg * deg },
+    spin: { rateRadPerSecond: (2 * Math.PI) / YEAR, ratio: { spin: 1, orbit: 1 }, obliquityRad: 0, equinoxTrueAnomalyRad: 0 },
+  });
+
+  it("puts the substellar point of a locked circular orbit at the substellar regime's temperature", () => {
+    const point = simulate(locked(0), { samples: 0 });
+    const substellar = simulate({ ...nominalCase({ e: 0, heatCapacity: 1e6 }), regime: "substellar" }, { samples: 0 });
+    expect(point.summary.solarDaySeconds).toBeNull();
+    expect(Math.abs(point.summary.temperature.meanK / substellar.summary.temperature.meanK - 1)).toBeLessThan(1e-8);
+  });
+
+  it("cools the antistellar point of a locked body to the internal-heat equilibrium (q/εσ)^(1/4)", () => {
+    const q = 0.08;
+    const sim = simulate(locked(180, q), { samples: 0 });
+    expect(Math.abs(sim.summary.temperature.meanK / equilibriumTemperature(q, 1) - 1)).toBeLessThan(1e-8);
+  });
+
+  it("refuses a point in permanent night with no internal heat", () => {
+    expect(() => simulate(locked(180), { samples: 0 })).toThrowError(/never sees the star/);
+  });
+
+  it("gives a 3:2 resonance a solar day of exactly two orbits", () => {
+    // 1/P_solar = 1/P_spin − 1/P_orbit = (3/2 − 1)/P ⇒ P_solar = 2P, from the spin and orbital rates alone.
+    expect(solarDaySeconds((1.5 * 2 * Math.PI) / YEAR, (2 * Math.PI) / YEAR)! / YEAR).toBeCloseTo(2, 12);
+    const sim = simulate(
+      {
+        ...nominalCase({ e: 0.2, heatCapacity: 1e6, aAu: 0.4, periodSeconds: YEAR * 0.4 ** 1.5 }),
+        regime: "point",
+        location: { latitudeRad: 0, longitudeRad: 0 },
+        spin: { rateRadPerSecond: (1.5 * 2 * Math.PI) / (YEAR * 0.4 ** 1.5), ratio: { spin: 3, orbit: 2 }, obliquityRad: 0, equinoxTrueAnomalyRad: 0 },
+      },
+      { samples: 0 },
+    );
+    expect(sim.summary.solarDaySeconds! / sim.summary.periodSeconds).toBeCloseTo(2, 12);
+    expect(sim.summary.cycleSeconds / sim.summary.periodSeconds).toBeCloseTo(2, 9);
+    expect(Math.abs(sim.summary.energyBalanceResidual)).toBeLessThan(1e-8);
+  });
+
+  it("librates the substellar longitude of a locked orbit by about 2e (equation of the centre; Murray & Dermott 1999, §2.5, from memory)", () => {
+    for (const e of [0.01, 0.05]) {
+      const n = (2 * Math.PI) / YEAR;
+      let amplitude = 0;
+      for (let k = 0; k < 2000; k++) {
+        const t = (YEAR * k) / 2000;
+        const nu = trueAnomalyFromEccentric(eccentricAnomaly(n * t, e), e);
+        amplitude = Math.max(amplitude, Math.abs(substellarLongitude(n, t, nu)));
+      }
+      // ν − M = 2e sin M + (5/4) e² sin 2M + O(e³): the maximum is 2e to first order.
+      expect(Math.abs(amplitude / (2 * e) - 1)).toBeLessThan(2 * e);
+    }
+  });
+});
