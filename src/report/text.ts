@@ -72,7 +72,7 @@ export function summaryText(resolved: ResolvedScenario, sim: Simulation): string
   const lines: string[] = [`calorbit ${VERSION} — ${resolved.thermal.name}`, ...describeScenario(resolved), ""];
   const heading: Record<typeof solver.mode, string> = {
     periodic: "Periodic steady state",
-    seasonal: `Seasonal cycle (spin not commensurate with the orbit: ${solver.orbitsIntegrated} orbits integrated until the orbit mean settled; statistics of the last)`,
+    seasonal: `Seasonal cycle (spin not commensurate with the orbit: ${solver.orbitsIntegrated} orbits integrated from the first guess; statistics of the last; the cycle does not close exactly, so neither does the energy budget)`,
     transient: `Transient from ${fixed(sim.series.temperatureK[0]!, 2)} K over ${solver.orbitsIntegrated} orbits (statistics of the last orbit)`,
   };
   lines.push(heading[solver.mode]);
