@@ -2,9 +2,13 @@
  * calorbit's benchmark (`npm run bench`): speed targets live here, never in timed tests.
  *  - periodic solve: one case, e = 0.5, τ ≈ P, tolerance 1e-8, summary included (no output series);
  *    the same for τ = 100 P, which must cost at most 3× as much;
- *  - batch: 10,000 varied cases, one core.
+ *  - batch: 10,000 varied cases, one core;
+ *  - sweep: a 100,000-case lumped sweep with 2 workers, the 1 → 2 worker speed-up, and peak memory
+ *    at 10,000 and 100,000 cases.
  * Prints lines of the form "periodic solve: 0.31 ms per case" and "batch: 3200 cases per second".
  */
+import { spawnSync } from "node:child_process";
+import { fileURLToPath } from "node:url";
 import { ASTRONOMICAL_UNIT_M, SOLAR_LUMINOSITY_W, SOLAR_MASS_KG, STEFAN_BOLTZMANN } from "../src/constants.js";
 import type { ThermalCase } from "../src/model.js";
 import { equilibriumTemperature, GEOMETRY_FACTOR, orbitMeanStellarFlux } from "../src/physics/flux.js";
@@ -58,3 +62,18 @@ let worstResidual = 0;
 for (const c of cases) worstResidual = Math.max(worstResidual, Math.abs(simulate(c, options).summary.energyBalanceResidual));
 const seconds = (performance.now() - t0) / 1000;
 console.log(`batch: ${Math.round(cases.length / seconds)} cases per second (10,000 varied cases, one core; worst energy residual ${worstResidual.toExponential(1)})`);
+
+// Sweeps, each in a fresh process so that peak memory is its own (process.resourceUsage().maxRSS
+// covers the worker threads too). Single-threaded GC, as the CLI uses for sweeps.
+const sweepScript = fileURLToPath(new URL("./sweepRun.js", import.meta.url));
+function sweepRun(cases: number, workers: number): { seconds: number; maxRssMiB: number } {
+  const r = spawnSync(process.execPath, ["--single-threaded-gc", sweepScript, String(cases), String(workers)], { encoding: "utf8" });
+  if (r.status !== 0) throw new Error(`sweep benchmark failed: ${r.stderr}`);
+  return JSON.parse(r.stdout.trim().split("\n").at(-1)!);
+}
+const oneWorker = sweepRun(10_000, 1);
+const twoWorkers = sweepRun(10_000, 2);
+const large = sweepRun(100_000, 2);
+console.log(`sweep: ${Math.round(100_000 / large.seconds)} cases per second (100,000-case lumped sweep, 2 workers; target >= 5000)`);
+console.log(`sweep scaling: 2 workers ${(oneWorker.seconds / twoWorkers.seconds).toFixed(2)}x faster than 1 (10,000 cases; target >= 1.8x)`);
+console.log(`sweep memory: peak ${twoWorkers.maxRssMiB.toFixed(0)} MiB for 10,000 cases, ${large.maxRssMiB.toFixed(0)} MiB for 100,000`);

@@ -9,6 +9,12 @@ import { parseScenarioText, resolveScenario, type ResolvedScenario } from "../sc
 export const DEMO_SCENARIO = fileURLToPath(new URL("../../../scenarios/calyndra-ocean.yaml", import.meta.url));
 
 export function loadScenario(path: string | undefined): { resolved: ResolvedScenario; file: string } {
+  const { document, file } = loadScenarioDocument(path);
+  return { resolved: resolveScenario(document), file };
+}
+
+/** The scenario file parsed but not yet validated (a sweep sets values before validating each case). */
+export function loadScenarioDocument(path: string | undefined): { document: unknown; file: string } {
   const file = path ?? DEMO_SCENARIO;
   if (!existsSync(file)) {
     throw new CalorbitError("SCENARIO_UNREADABLE", `${file}: no such file`);
@@ -21,7 +27,7 @@ export function loadScenario(path: string | undefined): { resolved: ResolvedScen
   }
   const ext = extname(file).toLowerCase();
   const format = ext === ".json" ? "json" : "yaml";
-  return { resolved: resolveScenario(parseScenarioText(text, format, file)), file };
+  return { document: parseScenarioText(text, format, file), file };
 }
 
 /**

@@ -1,0 +1,313 @@
+/**
+ * `calorbit sweep`: runs a sweep across worker threads and streams its rows to a file in case-id
+ * order; resumes an interrupted file; `merge` joins shard files. Memory stays flat: the rows of
+ * only a few chunks are ever held, and files are read in fixed-size blocks.
+ */
+import { closeSync, existsSync, fstatSync, ftruncateSync, openSync, readSync, renameSync, rmSync, writeSync } from "node:fs";
+import { cpus } from "node:os";
+import { Worker } from "node:worker_threads";
+import cliProgress from "cli-progress";
+import { CalorbitError } from "../errors.js";
+import { caseCount, shardIds, shardSize, type Shard } from "../sweep/design.js";
+import { headerLines, lineCaseId, type SweepDefinition, type SweepFormat } from "../sweep/runCase.js";
+
+const CHUNK = 32;
+const READ_BLOCK = 1 << 20;
+
+export interface SweepRun {
+  definition: SweepDefinition;
+  shard: Shard;
+  out?: string;
+  workers: number;
+  quiet: boolean;
+}
+
+/** Reads a file line by line in fixed blocks, calling `onLine(line, endOffset)` for each complete line. */
+function scanLines(fd: number, onLine: (line: string, end: number) => boolean): { completeEnd: number; size: number } {
+  const size = fstatSync(fd).size;
+  const buffer = Buffer.alloc(READ_BLOCK);
+  let carry = "";
+  let carryStart = 0;
+  let offset = 0;
+  let completeEnd = 0;
+  while (offset < size) {
+    const read = readSync(fd, buffer, 0, READ_BLOCK, offset);
+    if (read <= 0) break;
+    const text = carry + buffer.toString("utf8", 0, read);
+    const base = carryStart;
+    let start = 0;
+    for (;;) {
+      const nl = text.indexOf("\n", start);
+      if (nl < 0) break;
+      const line = text.slice(start, nl);
+      const end = base + Buffer.byteLength(text.slice(0, nl + 1), "utf8");
+      completeEnd = end;
+      if (!onLine(line, end)) return { completeEnd, size };
+      start = nl + 1;
+    }
+    carry = text.slice(start);
+    carryStart = base + Buffer.byteLength(text.slice(0, start), "utf8");
+    offset += read;
+  }
+  return { completeEnd, size };
+}
+
+function refuse(message: string, path: string, allowed: string): CalorbitError {
+  return new CalorbitError("USAGE", message, [{ path, given: message, allowed }]);
+}
+
+/**
+ * Opens the output for appending: a new file gets the header; an existing one must carry the
+ * same definition and shard, and its rows must be this shard's first cases in order. A torn last
+ * line (a crash mid-write) is cut off. Returns the number of cases already done.
+ */
+function openOutput(run: SweepRun): { fd: number; done: number } {
+  const header = headerLines(run.definition, run.shard);
+  const path = run.out!;
+  if (!existsSync(path)) {
+    const fd = openSync(path, "a");
+    writeSync(fd, header.join("\n") + "\n");
+    return { fd, done: 0 };
+  }
+  const fd = openSync(path, "r+");
+  const total = caseCount(run.definition.design);
+  const expected = shardIds(total, run.shard);
+  let headerIndex = 0;
+  let done = 0;
+  let problem: string | null = null;
+  const { completeEnd, size } = scanLines(fd, (line) => {
+    if (headerIndex < header.length) {
+      if (line !== header[headerIndex]) {
+        problem = headerIndex === 1 || headerIndex === 2 ? "it was written by a different sweep definition or shard" : "its header is not a calorbit sweep header";
+        return false;
+      }
+      headerIndex++;
+      return true;
+    }
+    const next = expected.next();
+    if (next.done || lineCaseId(line, run.definition.format) !== next.value) {
+      problem = `its rows are not this sweep's cases in order (at row ${done + 1})`;
+      return false;
+    }
+    done++;
+    return true;
+  });
+  if (problem) {
+    closeSync(fd);
+    throw refuse(`${path}: refusing to resume: ${problem}`, "--out", "the same command that wrote the file, or a new file name");
+  }
+  if (headerIndex < header.length) {
+    // Torn inside the header: start the file again.
+    ftruncateSync(fd, 0);
+    writeSync(fd, header.join("\n") + "\n", 0);
+    return { fd, done: 0 };
+  }
+  if (completeEnd < size) ftruncateSync(fd, completeEnd); // a torn last row
+  closeSync(fd);
+  return { fd: openSync(path, "a"), done };
+}
+
+export async function runSweep(run: SweepRun): Promise<{ written: number; skipped: number }> {
+  const total = caseCount(run.definition.design);
+  const size = shardSize(total, run.shard);
+  const output = run.out ? openOutput(run) : { fd: 1, done: 0 };
+  if (!run.out) writeSync(1, headerLines(run.definition, run.shard).join("\n") + "\n");
+  const ids = shardIds(total, run.shard);
+  for (let i = 0; i < output.done; i++) ids.next();
+  const remaining = size - output.done;
+
+  const showProgress = !run.quiet && process.stderr.isTTY === true;
+  const bar = showProgress
+    ? new cliProgress.SingleBar(
+        { format: "sweep |{bar}| {value}/{total} cases | {rate} cases/s | eta {eta_formatted}", stream: process.stderr, etaBuffer: 200 },
+        cliProgress.Presets.shades_classic,
+      )
+    : null;
+  bar?.start(size, output.done, { rate: "0" });
+  const startedAt = performance.now();
+
+  const workerCount = Math.max(1, Math.min(run.workers, Math.ceil(remaining / CHUNK) || 1));
+  const workers: Worker[] = [];
+  let nextChunk = 0;
+  let nextToWrite = 0;
+  let written = 0;
+  const finished = new Map<number, { text: string; count: number }>();
+  const takeChunk = (): number[] | null => {
+    const chunk: number[] = [];
+    for (let i = 0; i < CHUNK; i++) {
+      const n = ids.next();
+      if (n.done) break;
+      chunk.push(n.value);
+    }
+    return chunk.length > 0 ? chunk : null;
+  };
+
+  await new Promise<void>((resolve, reject) => {
+    let active = 0;
+    const flush = (): void => {
+      for (let entry = finished.get(nextToWrite); entry; entry = finished.get(nextToWrite)) {
+        writeSync(output.fd, entry.text);
+        finished.delete(nextToWrite);
+        nextToWrite++;
+        written += entry.count;
+        if (bar) bar.update(output.done + written, { rate: (written / ((performance.now() - startedAt) / 1000)).toFixed(0) });
+      }
+    };
+    const feed = (worker: Worker): void => {
+      // Keep at most a few chunks ahead of the writer, so memory does not grow with the sweep.
+      if (nextChunk - nextToWrite > 4 * workerCount) {
+        setTimeout(() => feed(worker), 1);
+        return;
+      }
+      const chunkIds = takeChunk();
+      if (!chunkIds) {
+        active--;
+        void worker.terminate();
+        if (active === 0) resolve();
+        return;
+      }
+      worker.postMessage({ chunk: nextChunk++, ids: chunkIds });
+    };
+    if (remaining === 0) {
+      resolve();
+      return;
+    }
+    for (let w = 0; w < workerCount; w++) {
+      const worker = new Worker(new URL("./sweepWorker.js", import.meta.url), { workerData: { definition: run.definition } });
+      workers.push(worker);
+      active++;
+      worker.on("message", (m: { chunk: number; text: string; count: number }) => {
+        finished.set(m.chunk, { text: m.text, count: m.count });
+        flush();
+        feed(worker);
+      });
+      worker.on("error", reject);
+      feed(worker);
+    }
+  });
+  bar?.stop();
+  if (run.out) closeSync(output.fd);
+  return { written, skipped: output.done };
+}
+
+/** Reads one file's lines in fixed-size blocks, on demand (sync; memory bounded by the block). */
+class LineReader {
+  private readonly fd: number;
+  private readonly buffer = Buffer.alloc(READ_BLOCK);
+  private pending = "";
+  private offset = 0;
+  private eof = false;
+
+  constructor(readonly file: string) {
+    this.fd = openSync(file, "r");
+  }
+
+  /** The next complete line, or null at the end (a torn last line is dropped). */
+  next(): string | null {
+    for (;;) {
+      const nl = this.pending.indexOf("\n");
+      if (nl >= 0) {
+        const line = this.pending.slice(0, nl);
+        this.pending = this.pending.slice(nl + 1);
+        return line;
+      }
+      if (this.eof) return null;
+      const read = readSync(this.fd, this.buffer, 0, READ_BLOCK, this.offset);
+      if (read <= 0) {
+        this.eof = true;
+        closeSync(this.fd);
+        continue;
+      }
+      this.offset += read;
+      this.pending += this.buffer.toString("utf8", 0, read);
+    }
+  }
+}
+
+/**
+ * Joins shard files of one sweep into one file in case-id order, checking that every case is
+ * present exactly once. A streaming k-way merge by case id: each shard is already in id order.
+ */
+export function mergeShards(files: string[], out: string, totalFor: (definitionJson: string) => number): { cases: number } {
+  if (files.length === 0) throw refuse("sweep merge: no shard files given", "files", "one or more shard files");
+  for (const file of files) if (!existsSync(file)) throw refuse(`${file}: no such file`, "files", "existing shard files");
+  const readers = files.map((file) => {
+    const reader = new LineReader(file);
+    const header: string[] = [];
+    let line = reader.next();
+    while (line !== null && line.startsWith("#")) {
+      header.push(line);
+      line = reader.next();
+    }
+    const definition = header.find((l) => l.startsWith("# definition: "));
+    if (!definition) throw refuse(`${file}: not a calorbit sweep file`, "files", "files written by calorbit sweep");
+    const format: SweepFormat = (JSON.parse(definition.slice("# definition: ".length)) as { format: SweepFormat }).format;
+    let columnsRow: string | null = null;
+    if (format === "csv" && line !== null && line.startsWith("case_id,")) {
+      columnsRow = line;
+      line = reader.next();
+    }
+    return { file, header, definition, format, columnsRow, reader, current: line };
+  });
+  const first = readers[0]!;
+  for (const r of readers) {
+    if (r.definition !== first.definition) throw refuse(`${r.file}: not a shard of the same sweep as ${first.file}`, "files", "shards written by one sweep definition");
+  }
+  const total = totalFor(first.definition.slice("# definition: ".length));
+  const idOf = (line: string) => lineCaseId(line, first.format);
+  const missing: number[] = [];
+  const duplicates: number[] = [];
+  const note = (list: number[], id: number) => {
+    if (list.length < 1000) list.push(id);
+    else list.push(-1);
+  };
+  const temporary = `${out}.${process.pid}.partial`;
+  const fd = openSync(temporary, "w");
+  const shardCount = /# shard: \d+\/(\d+)/.exec(first.header.join("\n"))?.[1] ?? "?";
+  writeSync(fd, [first.header[0], first.definition, `# shard: merged from ${files.length} of ${shardCount} shards`, ...(first.columnsRow ? [first.columnsRow] : [])].join("\n") + "\n");
+  let expected = 0;
+  let block: string[] = [];
+  for (;;) {
+    let best = -1;
+    for (let i = 0; i < readers.length; i++) {
+      const c = readers[i]!.current;
+      if (c !== null && c !== "" && (best < 0 || idOf(c) < idOf(readers[best]!.current!))) best = i;
+    }
+    if (best < 0) break;
+    const line = readers[best]!.current!;
+    readers[best]!.current = readers[best]!.reader.next();
+    const id = idOf(line);
+    if (id < expected) {
+      note(duplicates, id);
+      continue;
+    }
+    while (expected < id) note(missing, expected++);
+    block.push(line);
+    if (block.length >= 1000) {
+      writeSync(fd, block.join("\n") + "\n");
+      block = [];
+    }
+    expected++;
+  }
+  while (expected < total) note(missing, expected++);
+  if (block.length > 0) writeSync(fd, block.join("\n") + "\n");
+  closeSync(fd);
+  if (missing.length > 0 || duplicates.length > 0) {
+    rmSync(temporary, { force: true });
+    const list = (a: number[]) => {
+      const ids = a.filter((x) => x >= 0);
+      return a.length > 12 ? `${ids.slice(0, 12).join(", ")} …` : ids.join(", ");
+    };
+    const parts = [
+      missing.length ? `${missing.length >= 1000 ? "1000 or more" : missing.length} missing (case ids ${list(missing)})` : "",
+      duplicates.length ? `${duplicates.length >= 1000 ? "1000 or more" : duplicates.length} present twice (case ids ${list(duplicates)})` : "",
+    ].filter(Boolean);
+    throw refuse(`sweep merge: ${parts.join("; ")}; nothing written`, "files", "every shard of the sweep, each complete (rerun an incomplete shard: it resumes)");
+  }
+  renameSync(temporary, out);
+  return { cases: total };
+}
+
+export function defaultWorkers(): number {
+  return Math.max(1, cpus().length);
+}
