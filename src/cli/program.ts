@@ -9,13 +9,16 @@ import { luminosityFromRadiusTemperature } from "../physics/star.js";
 import { buildThermalModel } from "../thermalModel.js";
 import { resultDocument } from "../report/document.js";
 import { seriesCsv } from "../report/csv.js";
+import { temperatureSvg } from "../report/svg.js";
 import { describeScenario, summaryText } from "../report/text.js";
 import { duration, sig } from "../report/format.js";
 import { scenarioJsonSchema } from "../scenario/schema.js";
 import { parseQuantity, type QuantityKind } from "../scenario/units.js";
 import { DEFAULT_RELATIVE_TOLERANCE, DEFAULT_SAMPLES, simulate, type SimulateOptions } from "../simulate.js";
 import { VERSION } from "../version.js";
+import { readFileSync } from "node:fs";
 import { loadScenario, loadScenarioDocument, writeFileAtomic } from "./io.js";
+import { startViewServer } from "./viewServer.js";
 import { defaultWorkers, mergeShards, runSweep } from "./sweep.js";
 import { caseCount, parseShard } from "../sweep/design.js";
 import { parseAxis } from "../sweep/spec.js";
@@ -54,6 +57,7 @@ interface RunFlags {
   json?: boolean;
   series?: boolean;
   csv?: string;
+  svg?: string;
   samples: string;
   from?: string;
   orbits?: string;
@@ -76,11 +80,13 @@ function runCommand(scenarioPath: string | undefined, flags: RunFlags): void {
   const { resolved } = loadScenario(scenarioPath);
   const sim = simulate(resolved.thermal, options);
   if (flags.csv !== undefined) writeFileAtomic(flags.csv, seriesCsv(resolved, sim));
+  if (flags.svg !== undefined) writeFileAtomic(flags.svg, temperatureSvg(resolved.thermal.name, sim.series, sim.summary));
   if (flags.json) {
     process.stdout.write(JSON.stringify(resultDocument(resolved, sim, flags.series === true), null, 2) + "\n");
   } else {
     process.stdout.write(summaryText(resolved, sim));
     if (flags.csv !== undefined) process.stdout.write(`\nseries written to ${flags.csv} (${sim.series.timeSeconds.length} rows)\n`);
+    if (flags.svg !== undefined) process.stdout.write(`chart written to ${flags.svg}\n`);
   }
 }
 
@@ -236,6 +242,48 @@ async function sweepCommand(args: string[], flags: SweepFlags): Promise<void> {
   }
 }
 
+interface ViewFlags {
+  port: string;
+}
+
+async function viewCommand(path: string | undefined, flags: ViewFlags): Promise<void> {
+  const port = integerFlag("--port", flags.port, 0, 65535);
+  let resultJson: string;
+  if (path !== undefined && path.toLowerCase().endsWith(".json") && looksLikeResult(path)) {
+    resultJson = readFileSync(path, "utf8");
+  } else {
+    const { resolved } = loadScenario(path);
+    resultJson = JSON.stringify(resultDocument(resolved, simulate(resolved.thermal, { samples: 2000 }), true));
+  }
+  const viewer = await startViewServer(resultJson, port);
+  process.stdout.write(`calorbit viewer at ${viewer.url}  (Ctrl-C stops it)\n`);
+  await new Promise<void>((resolve) => {
+    const stop = () => {
+      process.stdout.write("stopping the viewer\n");
+      void viewer.close().then(resolve);
+      // Keep-alive connections from a browser would hold close() open; do not wait for them.
+      viewer.server.closeAllConnections();
+    };
+    process.once("SIGINT", stop);
+    process.once("SIGTERM", stop);
+  });
+}
+
+/** A result file from `run --json --series` (not a scenario written as JSON). */
+function looksLikeResult(path: string): boolean {
+  try {
+    const doc = JSON.parse(readFileSync(path, "utf8")) as Record<string, unknown>;
+    if ("summary" in doc && "scenario" in doc) {
+      if (!("series" in doc)) throw usage("view", JSON.stringify(path), "a result written with run --json --series (this one has no series)");
+      return true;
+    }
+    return false;
+  } catch (err) {
+    if (err instanceof CalorbitError) throw err;
+    return false;
+  }
+}
+
 export function buildProgram(): Command {
   const program = new Command();
   program
@@ -253,6 +301,7 @@ export function buildProgram(): Command {
     .option("--json", "print one JSON document (summary, solver work, resolved scenario in SI units)")
     .option("--series", "with --json: include the sampled series as columnar arrays")
     .option("--csv <file>", "write the series (time, phase, true anomaly, distance, flux, T, T_eq) as CSV")
+    .option("--svg <file>", "write the T and T_eq chart as a standalone SVG")
     .option("--samples <n>", "points in the series, uniform in time", String(DEFAULT_SAMPLES))
     .option("--from <temperature>", "transient mode: start at this temperature (e.g. 150K, -20degC)")
     .option("--orbits <n>", "transient mode: number of orbits to integrate (default 1)")
@@ -323,6 +372,14 @@ Examples:
   calorbit sweep merge part-*.csv --out all.csv`,
     )
     .action((args: string[], flags: SweepFlags) => sweepCommand(args, flags));
+
+  program
+    .command("view")
+    .description("open the interactive viewer in a browser (a local server on 127.0.0.1)")
+    .argument("[file]", "a scenario, or a result from run --json --series; the bundled demo when omitted")
+    .option("--port <n>", "port to listen on (0: a free one)", "0")
+    .addHelpText("after", `\nExamples:\n  calorbit view\n  calorbit view scenarios/korvath-locked.yaml --port 8765`)
+    .action((file: string | undefined, flags: ViewFlags) => viewCommand(file, flags));
 
   program
     .command("check")

@@ -2,6 +2,7 @@
  * The machine-readable result: one JSON document that says how it was made (calorbit version,
  * the resolved scenario in SI units) and what came out (summary, solver work, optional series).
  */
+import type { ThermalCase } from "../model.js";
 import type { ResolvedScenario } from "../scenario/resolve.js";
 import type { Simulation } from "../simulate.js";
 import { VERSION } from "../version.js";
@@ -82,4 +83,43 @@ export function resultDocument(resolved: ResolvedScenario, sim: Simulation, with
     }
   }
   return doc;
+}
+
+/** The inverse of resolvedScenarioRecord: a ThermalCase from a result file's SI scenario (the viewer uses it). */
+export function thermalCaseFromRecord(record: ReturnType<typeof resolvedScenarioRecord>): ThermalCase {
+  const thermal: ThermalCase = {
+    name: record.name,
+    star: {
+      luminosityW: record.star.luminosityW,
+      massKg: record.star.massKg ?? NaN,
+      ...(record.star.radiusM !== null ? { radiusM: record.star.radiusM } : {}),
+      ...(record.star.effectiveTemperatureK !== null ? { effectiveTemperatureK: record.star.effectiveTemperatureK } : {}),
+    },
+    orbit: {
+      semiMajorAxisM: record.orbit.semiMajorAxisM,
+      eccentricity: record.orbit.eccentricity,
+      periodSeconds: record.orbit.periodSeconds,
+      meanAnomalyAtStartRad: record.orbit.meanAnomalyAtStartRad,
+    },
+    surface: {
+      albedo: record.body.albedo,
+      emissivity: record.body.emissivity,
+      heatCapacityJPerM2K: record.body.heatCapacityJPerM2K,
+      internalFluxWPerM2: record.body.internalFluxWPerM2,
+    },
+    regime: record.regime,
+    ...(record.thresholdsK ? { windowK: [record.thresholdsK[0]!, record.thresholdsK[1]!] as const } : {}),
+    ...(record.exchange ? { exchange: record.exchange } : {}),
+    ...(record.surface ? { location: record.surface } : {}),
+  };
+  if (record.spin) {
+    const ratio = record.spin.orbitRatio ? record.spin.orbitRatio.split(":").map(Number) : null;
+    thermal.spin = {
+      rateRadPerSecond: record.spin.rateRadPerSecond,
+      ...(ratio ? { ratio: { spin: ratio[0]!, orbit: ratio[1]! } } : {}),
+      obliquityRad: record.spin.obliquityRad,
+      equinoxTrueAnomalyRad: record.spin.equinoxTrueAnomalyRad,
+    };
+  }
+  return thermal;
 }

@@ -1,0 +1,76 @@
+/**
+ * The viewer's local server: binds to 127.0.0.1 only, serves the built viewer (dist/web) and one
+ * result document, answers GET and HEAD only, and refuses any path outside its short list.
+ */
+import { readFileSync } from "node:fs";
+import { createServer, type Server } from "node:http";
+import type { AddressInfo } from "node:net";
+import { fileURLToPath } from "node:url";
+
+const WEB_DIR = fileURLToPath(new URL("../../web/", import.meta.url));
+const FILES: Record<string, { file: string; type: string }> = {
+  "/": { file: "index.html", type: "text/html; charset=utf-8" },
+  "/index.html": { file: "index.html", type: "text/html; charset=utf-8" },
+  "/viewer.js": { file: "viewer.js", type: "text/javascript; charset=utf-8" },
+  "/style.css": { file: "style.css", type: "text/css; charset=utf-8" },
+  "/uPlot.min.css": { file: "uPlot.min.css", type: "text/css; charset=utf-8" },
+};
+
+export interface ViewServer {
+  server: Server;
+  url: string;
+  close(): Promise<void>;
+}
+
+/** Starts the server on 127.0.0.1:port (0 = a free port) serving `resultJson` at /result.json. */
+export function startViewServer(resultJson: string, port: number): Promise<ViewServer> {
+  const server = createServer((req, res) => {
+    const security = {
+      "X-Content-Type-Options": "nosniff",
+      "Content-Security-Policy": "default-src 'self'; img-src 'self' data: blob:; style-src 'self' 'unsafe-inline'",
+      "Cache-Control": "no-store",
+    };
+    if (req.method !== "GET" && req.method !== "HEAD") {
+      res.writeHead(405, { ...security, Allow: "GET, HEAD", "Content-Type": "text/plain" }).end("method not allowed\n");
+      return;
+    }
+    const raw = req.url ?? "/";
+    const path = raw.split("?")[0]!;
+    let decoded: string;
+    try {
+      decoded = decodeURIComponent(path);
+    } catch {
+      decoded = "\0";
+    }
+    if (decoded.includes("..") || decoded.includes("\\") || decoded.includes("\0")) {
+      res.writeHead(400, { ...security, "Content-Type": "text/plain" }).end("bad path\n");
+      return;
+    }
+    if (path === "/result.json") {
+      res.writeHead(200, { ...security, "Content-Type": "application/json" }).end(req.method === "HEAD" ? undefined : resultJson);
+      return;
+    }
+    const entry = FILES[path];
+    if (!entry) {
+      res.writeHead(404, { ...security, "Content-Type": "text/plain" }).end("not found\n");
+      return;
+    }
+    try {
+      const body = readFileSync(WEB_DIR + entry.file);
+      res.writeHead(200, { ...security, "Content-Type": entry.type }).end(req.method === "HEAD" ? undefined : body);
+    } catch {
+      res.writeHead(500, { ...security, "Content-Type": "text/plain" }).end("viewer not built: run npm run build\n");
+    }
+  });
+  return new Promise((resolve, reject) => {
+    server.once("error", reject);
+    server.listen(port, "127.0.0.1", () => {
+      const address = server.address() as AddressInfo;
+      resolve({
+        server,
+        url: `http://127.0.0.1:${address.port}/`,
+        close: () => new Promise((done) => server.close(() => done())),
+      });
+    });
+  });
+}

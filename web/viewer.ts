@@ -1,0 +1,322 @@
+/**
+ * calorbit's browser viewer. It runs the same engine modules as the CLI in the page: every
+ * control change re-simulates and redraws locally, with no round trip to the server. The view
+ * state lives in the URL (share the address to share the view).
+ */
+import uPlot from "uplot";
+import { DAY_S, ASTRONOMICAL_UNIT_M } from "../src/constants.js";
+import type { Regime, ThermalCase } from "../src/model.js";
+import { thermalCaseFromRecord, type ResultDocument } from "../src/report/document.js";
+import { simulate, type Simulation } from "../src/simulate.js";
+import { chartColumns, chartMarkers, type XAxis } from "../src/view/chartData.js";
+
+/** Okabe & Ito (2008) colour-blind-safe palette. */
+const COLOURS = { t: "#0072B2", teq: "#D55E00", night: "#56B4E9", window: "#009E73", marker: "#CC79A7", grey: "#555555" };
+const OVERLAY_COLOURS: Record<string, string> = { global: "#0072B2", dayside: "#E69F00", substellar: "#D55E00", daynight: "#009E73" };
+const SAMPLES = 2000;
+
+interface ViewState {
+  e: number;
+  albedo: number;
+  emissivity: number;
+  log10C: number;
+  log10A: number; // semi-major axis, log10 au
+  regime: Regime;
+  x: XAxis;
+  overlay: boolean;
+}
+
+const $ = <T extends HTMLElement>(id: string) => document.getElementById(id) as T;
+
+function stateFromCase(c: ThermalCase): ViewState {
+  return {
+    e: c.orbit.eccentricity,
+    albedo: c.surface.albedo,
+    emissivity: c.surface.emissivity,
+    log10C: Math.log10(c.surface.heatCapacityJPerM2K),
+    log10A: Math.log10(c.orbit.semiMajorAxisM / ASTRONOMICAL_UNIT_M),
+    regime: c.regime,
+    x: "time",
+    overlay: false,
+  };
+}
+
+function readUrl(base: ViewState): ViewState {
+  const q = new URLSearchParams(location.search);
+  const num = (k: string, d: number) => (q.has(k) && Number.isFinite(Number(q.get(k))) ? Number(q.get(k)) : d);
+  return {
+    e: num("e", base.e),
+    albedo: num("albedo", base.albedo),
+    emissivity: num("emissivity", base.emissivity),
+    log10C: num("logC", base.log10C),
+    log10A: num("logA", base.log10A),
+    regime: (q.get("regime") as Regime | null) ?? base.regime,
+    x: (q.get("x") as XAxis | null) ?? base.x,
+    overlay: q.get("overlay") === "1" || (q.get("overlay") === null && base.overlay),
+  };
+}
+
+function writeUrl(s: ViewState): void {
+  const q = new URLSearchParams({
+    e: s.e.toFixed(3),
+    albedo: s.albedo.toFixed(3),
+    emissivity: s.emissivity.toFixed(3),
+    logC: s.log10C.toFixed(3),
+    logA: s.log10A.toFixed(4),
+    regime: s.regime,
+    x: s.x,
+    overlay: s.overlay ? "1" : "0",
+  });
+  history.replaceState(null, "", `${location.pathname}?${q.toString()}`);
+}
+
+/** The base case with the view's parameters; the period follows Kepler's third law when a changes. */
+function caseFor(base: ThermalCase, s: ViewState): ThermalCase {
+  const a = 10 ** s.log10A * ASTRONOMICAL_UNIT_M;
+  const period = base.orbit.periodSeconds * (a / base.orbit.semiMajorAxisM) ** 1.5;
+  return {
+    ...base,
+    regime: s.regime,
+    orbit: { ...base.orbit, eccentricity: s.e, semiMajorAxisM: a, periodSeconds: period },
+    surface: { ...base.surface, albedo: s.albedo, emissivity: s.emissivity, heatCapacityJPerM2K: 10 ** s.log10C },
+  };
+}
+
+const fmt = (v: number, d = 2) => (Number.isFinite(v) ? v.toFixed(d) : "—");
+
+function showSummary(sim: Simulation): void {
+  const s = sim.summary;
+  const set = (id: string, text: string) => (document.querySelector(`[data-testid="${id}"]`)!.textContent = text);
+  set("t-min", fmt(s.temperature.minK));
+  set("t-max", fmt(s.temperature.maxK));
+  set("t-mean", fmt(s.temperature.meanK));
+  set("teq-min", fmt(s.equilibrium.minK));
+  set("teq-max", fmt(s.equilibrium.maxK));
+  set("teq-mean", fmt(s.equilibrium.meanK));
+  set("lag", s.lagSeconds === null ? "none (circular)" : `${fmt(s.lagSeconds / DAY_S, 1)} d`);
+  set("damping", fmt(s.dampingRatio, 3));
+  set("tau", s.tauOverPeriod.toPrecision(3));
+  set("in-range", s.timeInRange ? `${fmt(100 * s.timeInRange.fraction, 1)} % (${s.timeInRange.lowK}–${s.timeInRange.highK} K)` : "no window set");
+  set("residual", s.energyBalanceResidual.toExponential(1));
+  set("period", `${fmt(s.periodSeconds / DAY_S, 2)} d`);
+}
+
+/** Periastron lines, the maximum and the window, drawn on the temperature chart's canvas. */
+function markersPlugin(getMarkers: () => ReturnType<typeof chartMarkers> | null): uPlot.Plugin {
+  return {
+    hooks: {
+      drawClear: [
+        (u: uPlot) => {
+          const m = getMarkers();
+          if (!m?.window) return;
+          const ctx = u.ctx;
+          const top = u.valToPos(m.window.highK, "y", true);
+          const bottom = u.valToPos(m.window.lowK, "y", true);
+          const y0 = Math.max(u.bbox.top, Math.min(top, bottom));
+          const y1 = Math.min(u.bbox.top + u.bbox.height, Math.max(top, bottom));
+          if (y1 <= y0) return;
+          ctx.save();
+          ctx.fillStyle = "rgba(0, 158, 115, 0.13)";
+          ctx.fillRect(u.bbox.left, y0, u.bbox.width, y1 - y0);
+          ctx.restore();
+        },
+      ],
+      draw: [
+        (u: uPlot) => {
+          const m = getMarkers();
+          if (!m) return;
+          const ctx = u.ctx;
+          ctx.save();
+          ctx.setLineDash([3 * devicePixelRatio, 5 * devicePixelRatio]);
+          ctx.strokeStyle = COLOURS.grey;
+          ctx.lineWidth = devicePixelRatio;
+          for (const p of m.periastra) {
+            const x = u.valToPos(p, "x", true);
+            ctx.beginPath();
+            ctx.moveTo(x, u.bbox.top);
+            ctx.lineTo(x, u.bbox.top + u.bbox.height);
+            ctx.stroke();
+          }
+          if (m.maximum) {
+            const x = u.valToPos(m.maximum.x, "x", true);
+            const y = u.valToPos(m.maximum.valueK, "y", true);
+            ctx.setLineDash([]);
+            ctx.fillStyle = COLOURS.marker;
+            ctx.beginPath();
+            ctx.arc(x, y, 5 * devicePixelRatio, 0, 2 * Math.PI);
+            ctx.fill();
+            ctx.font = `${12 * devicePixelRatio}px sans-serif`;
+            ctx.fillText("max", x + 8 * devicePixelRatio, y - 6 * devicePixelRatio);
+          }
+          ctx.restore();
+        },
+      ],
+    },
+  };
+}
+
+async function start(): Promise<void> {
+  const response = await fetch("result.json");
+  const doc = (await response.json()) as ResultDocument;
+  const base = thermalCaseFromRecord(doc.scenario);
+  $("scenario-name").textContent = `— ${base.name}`;
+  const initial = stateFromCase(base);
+  let state = readUrl(initial);
+  let markers: ReturnType<typeof chartMarkers> | null = null;
+  let lastSim: Simulation | null = null;
+  let lastColumns: ReturnType<typeof chartColumns> | null = null;
+
+  const width = () => Math.max(480, $("chart-temperature").clientWidth || 800);
+  let tempChart: uPlot | null = null;
+  let orbitChart: uPlot | null = null;
+
+  const inputs = {
+    e: $<HTMLInputElement>("in-e"),
+    albedo: $<HTMLInputElement>("in-albedo"),
+    emissivity: $<HTMLInputElement>("in-emissivity"),
+    c: $<HTMLInputElement>("in-c"),
+    a: $<HTMLInputElement>("in-a"),
+    regime: $<HTMLSelectElement>("in-regime"),
+    x: $<HTMLSelectElement>("in-x"),
+    overlay: $<HTMLInputElement>("in-overlay"),
+  };
+  const syncInputs = () => {
+    inputs.e.value = String(state.e);
+    inputs.albedo.value = String(state.albedo);
+    inputs.emissivity.value = String(state.emissivity);
+    inputs.c.value = String(state.log10C);
+    inputs.a.value = String(state.log10A);
+    inputs.regime.value = state.regime;
+    inputs.x.value = state.x;
+    inputs.overlay.checked = state.overlay;
+    $("out-e").textContent = state.e.toFixed(2);
+    $("out-albedo").textContent = state.albedo.toFixed(2);
+    $("out-emissivity").textContent = state.emissivity.toFixed(2);
+    $("out-c").textContent = (10 ** state.log10C).toExponential(1);
+    $("out-a").textContent = (10 ** state.log10A).toPrecision(3);
+  };
+
+  const render = () => {
+    const t0 = performance.now();
+    const thermal = caseFor(base, state);
+    let sim: Simulation;
+    try {
+      sim = simulate(thermal, { samples: SAMPLES });
+    } catch (err) {
+      $("status").textContent = `cannot compute: ${(err as Error).message}`;
+      return;
+    }
+    lastSim = sim;
+    const cols = chartColumns(sim.series, state.x);
+    lastColumns = cols;
+    markers = chartMarkers(sim.series, sim.summary, state.x, cols);
+    const data: number[][] = [cols.x, cols.temperatureK, cols.equilibriumK];
+    const series: uPlot.Series[] = [
+      { label: cols.xLabel },
+      { label: sim.series.states.length > 1 ? "T day (K)" : "T (K)", stroke: COLOURS.t, width: 2.5 },
+      { label: sim.series.states.length > 1 ? "T_eq day (K)" : "T_eq (K)", stroke: COLOURS.teq, width: 2, dash: [8, 5] },
+    ];
+    if (sim.series.states.length > 1) {
+      data.push(Array.from(sim.series.states[1]!.temperatureK));
+      series.push({ label: "T night (K)", stroke: COLOURS.night, width: 2.5 });
+    }
+    if (state.overlay) {
+      for (const regime of ["global", "dayside", "substellar"] as const) {
+        if (regime === state.regime) continue;
+        try {
+          const other = simulate({ ...thermal, regime }, { samples: SAMPLES });
+          data.push(Array.from(other.series.temperatureK));
+          series.push({ label: `T ${regime} (K)`, stroke: OVERLAY_COLOURS[regime]!, width: 1.5, dash: [2, 3] });
+        } catch {
+          /* a regime that cannot run here is simply not overlaid */
+        }
+      }
+    }
+    tempChart?.destroy();
+    tempChart = new uPlot(
+      {
+        width: width(),
+        height: 380,
+        title: "Temperature and instantaneous equilibrium",
+        scales: { x: { time: false } },
+        axes: [{ label: cols.xLabel }, { label: "temperature (K)" }],
+        series,
+        plugins: [markersPlugin(() => markers)],
+      },
+      data as uPlot.AlignedData,
+      $("chart-temperature"),
+    );
+    const orbitData = [cols.x, cols.distanceAu, cols.absorbedWPerM2];
+    if (!orbitChart) {
+      orbitChart = new uPlot(
+        {
+          width: width(),
+          height: 220,
+          title: "Distance and absorbed flux",
+          scales: { x: { time: false }, au: {}, flux: {} },
+          axes: [{ label: cols.xLabel }, { scale: "au", label: "distance (au)" }, { scale: "flux", side: 1, label: "absorbed flux (W m⁻²)", grid: { show: false } }],
+          series: [
+            { label: cols.xLabel },
+            { label: "distance (au)", stroke: COLOURS.grey, width: 2, scale: "au" },
+            { label: "absorbed (W m⁻²)", stroke: COLOURS.window, width: 2, scale: "flux" },
+          ],
+        },
+        orbitData as uPlot.AlignedData,
+        $("chart-orbit"),
+      );
+    } else {
+      orbitChart.setData(orbitData as uPlot.AlignedData);
+    }
+    showSummary(sim);
+    const ms = performance.now() - t0;
+    $("status").textContent = `recomputed and drawn in ${ms.toFixed(0)} ms (${SAMPLES} samples, ${sim.solver.integrator})`;
+    (window as unknown as { calorbitViewer: unknown }).calorbitViewer = { summary: sim.summary, renderMs: ms, samples: cols.x.length };
+  };
+
+  const onChange = () => {
+    state = {
+      e: Number(inputs.e.value),
+      albedo: Number(inputs.albedo.value),
+      emissivity: Number(inputs.emissivity.value),
+      log10C: Number(inputs.c.value),
+      log10A: Number(inputs.a.value),
+      regime: inputs.regime.value as Regime,
+      x: inputs.x.value as XAxis,
+      overlay: inputs.overlay.checked,
+    };
+    syncInputs();
+    writeUrl(state);
+    render();
+  };
+  for (const el of Object.values(inputs)) el.addEventListener("input", onChange);
+  $("reset").addEventListener("click", () => {
+    state = initial;
+    syncInputs();
+    writeUrl(state);
+    render();
+  });
+  $("export-csv").addEventListener("click", () => {
+    if (!lastSim || !lastColumns) return;
+    const header = `# calorbit viewer export: ${base.name}\nx (${lastColumns.xLabel}),temperature_K,equilibrium_K,distance_au,absorbed_flux_W_m2\n`;
+    const rows = lastColumns.x.map((x, i) => [x, lastColumns!.temperatureK[i], lastColumns!.equilibriumK[i], lastColumns!.distanceAu[i], lastColumns!.absorbedWPerM2[i]].join(","));
+    download(new Blob([header + rows.join("\n") + "\n"], { type: "text/csv" }), "calorbit-series.csv");
+  });
+  $("export-png").addEventListener("click", () => {
+    const canvas = document.querySelector<HTMLCanvasElement>("#chart-temperature canvas");
+    canvas?.toBlob((blob) => blob && download(blob, "calorbit-chart.png"));
+  });
+  syncInputs();
+  render();
+}
+
+function download(blob: Blob, name: string): void {
+  const a = document.createElement("a");
+  a.href = URL.createObjectURL(blob);
+  a.download = name;
+  a.click();
+  setTimeout(() => URL.revokeObjectURL(a.href), 1000);
+}
+
+start().catch((err: unknown) => {
+  $("status").textContent = `could not load the result: ${(err as Error).message}`;
+});
