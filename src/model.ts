@@ -2,6 +2,7 @@
  * A thermal case: everything the engine needs, validated and in SI units. The scenario module
  * builds it from a file; a script can build it directly. Nothing here knows about files.
  */
+import type { ColumnProperties, GridControls } from "./physics/column.js";
 import type { HeatExchange } from "./physics/dayNight.js";
 import type { SurfaceProperties } from "./physics/energyBalance.js";
 import { LUMPED_REGIMES } from "./physics/flux.js";
@@ -44,4 +45,15 @@ export interface ThermalCase {
   location?: SurfaceLocation;
   /** Day/night heat exchange (daynight regime). Default: no exchange, uniform dayside. */
   exchange?: HeatExchange;
+  /** A conduction column under the surface, in place of the lumped heat capacity. */
+  column?: ColumnSpec;
+}
+
+export interface ColumnSpec {
+  properties: ColumnProperties;
+  grid: GridControls;
+  /** Depths at which to report temperature series, m. */
+  outputDepthsM: readonly number[];
+  /** Heat flux into the bottom, W m⁻². */
+  interiorFluxWPerM2: number;
 }

@@ -77,6 +77,11 @@ export interface Simulation {
 export function simulate(thermal: ThermalCase, options: SimulateOptions = {}): Simulation {
   const rtol = options.relativeTolerance ?? DEFAULT_RELATIVE_TOLERANCE;
   requireNumber("tolerance", rtol, (t) => t >= 1e-13 && t <= 1e-2, "1e-13 ≤ tolerance ≤ 1e-2");
+  if (thermal.column) {
+    throw new CalorbitError("INVALID_ARGUMENT", "this case has a conduction column", [
+      { path: "body.column", given: "a conduction column", allowed: "calorbit run (the column solver); compare, sweep and the viewer take lumped surfaces" },
+    ]);
+  }
   const model = buildThermalModel(thermal);
   const { orbit } = thermal;
   const n = model.system.dimension;

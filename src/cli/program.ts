@@ -9,6 +9,8 @@ import { luminosityFromRadiusTemperature } from "../physics/star.js";
 import { buildThermalModel } from "../thermalModel.js";
 import { resultDocument } from "../report/document.js";
 import { seriesCsv } from "../report/csv.js";
+import { columnCsv, columnDocument, columnText } from "../report/columnReport.js";
+import { simulateColumn } from "../simulateColumn.js";
 import { temperatureSvg } from "../report/svg.js";
 import { describeScenario, summaryText } from "../report/text.js";
 import { duration, sig } from "../report/format.js";
@@ -78,6 +80,16 @@ function runCommand(scenarioPath: string | undefined, flags: RunFlags): void {
     if (!(options.transient.startK > 0)) throw usage("--from", JSON.stringify(flags.from), "a temperature > 0 K");
   }
   const { resolved } = loadScenario(scenarioPath);
+  if (resolved.thermal.column) {
+    if (options.transient) throw usage("--from", JSON.stringify(flags.from ?? ""), "no transient mode for a conduction column yet (it runs to its periodic state)");
+    // The column's periodicity and energy tolerance: 1e-6 unless --tolerance says otherwise.
+    const columnTolerance = flags.tolerance === String(DEFAULT_RELATIVE_TOLERANCE) ? 1e-6 : Math.max(options.relativeTolerance!, 1e-12);
+    const col = simulateColumn(resolved.thermal, resolved.thermal.column, { relativeTolerance: columnTolerance, samples: options.samples ?? 1000 });
+    if (flags.csv !== undefined) writeFileAtomic(flags.csv, columnCsv(resolved, col));
+    if (flags.json) process.stdout.write(JSON.stringify(columnDocument(resolved, col, flags.series === true), null, 2) + "\n");
+    else process.stdout.write(columnText(resolved, col));
+    return;
+  }
   const sim = simulate(resolved.thermal, options);
   if (flags.csv !== undefined) writeFileAtomic(flags.csv, seriesCsv(resolved, sim));
   if (flags.svg !== undefined) writeFileAtomic(flags.svg, temperatureSvg(resolved.thermal.name, sim.series, sim.summary));

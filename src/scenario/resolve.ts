@@ -6,6 +6,7 @@ import { parse as parseYaml, YAMLParseError } from "yaml";
 import type { z } from "zod";
 import { CalorbitError, type FieldProblem } from "../errors.js";
 import type { ThermalCase } from "../model.js";
+import { DEFAULT_GRID } from "../physics/column.js";
 import { layerHeatCapacity, MATERIALS, type MaterialName } from "../physics/materials.js";
 import { keplerPeriodSeconds } from "../physics/orbit.js";
 import { luminosityFromRadiusTemperature, massParameter } from "../physics/star.js";
@@ -112,7 +113,18 @@ function fromParsed(s: ParsedScenario, raw: unknown): ResolvedScenario {
   // Body: heat capacity given directly or from a layer, exactly one.
   let heatCapacity = NaN;
   let heatCapacityOrigin: HeatCapacityOrigin = { kind: "direct" };
-  if (s.body.heatCapacity !== undefined && s.body.layer !== undefined) {
+  const column = s.body.column;
+  if (column !== undefined && (s.body.heatCapacity !== undefined || s.body.layer !== undefined)) {
+    problem("body.column", "either a column or body.heatCapacity / body.layer, not both");
+  } else if (column !== undefined) {
+    heatCapacity = 1; // unused: the column stores the heat
+    if (column.profile === undefined && column.conductivity === undefined && column.thermalInertia === undefined) {
+      problem("body.column", "a thermalInertia, a conductivity, or a depth profile");
+    }
+    if (column.thermalInertia !== undefined && (column.conductivity !== undefined || column.profile !== undefined)) {
+      problem("body.column.thermalInertia", "either thermalInertia or conductivity / profile, not both");
+    }
+  } else if (s.body.heatCapacity !== undefined && s.body.layer !== undefined) {
     problem("body.layer", "either body.heatCapacity or body.layer, not both");
   } else if (s.body.heatCapacity !== undefined) {
     heatCapacity = s.body.heatCapacity;
@@ -174,6 +186,7 @@ function fromParsed(s: ParsedScenario, raw: unknown): ResolvedScenario {
     },
     location: { latitudeRad: s.surface?.latitude ?? 0, longitudeRad: s.surface?.longitude ?? 0 },
   };
+  if (column !== undefined) thermal.column = columnSpec(column, s.body.internalFlux ?? 0);
   const n = (2 * Math.PI) / periodSeconds;
   const ratio = s.spin?.orbitRatio !== undefined ? parseRatio(s.spin.orbitRatio) : s.spin?.period === undefined ? { spin: 1, orbit: 1 } : undefined;
   thermal.spin = {
@@ -187,5 +200,36 @@ function fromParsed(s: ParsedScenario, raw: unknown): ResolvedScenario {
     heatCapacityOrigin,
     periodOrigin: s.orbit.period !== undefined ? "given" : "kepler",
     ...(s.description !== undefined ? { description: s.description } : {}),
+  };
+}
+
+type ColumnInput = NonNullable<ParsedScenario["body"]["column"]>;
+
+/** The column's properties in SI: a homogeneous layer, a thermal inertia, or a depth profile. */
+function columnSpec(c: ColumnInput, internalFlux: number): NonNullable<ThermalCase["column"]> {
+  const density = c.density ?? 1500;
+  const specificHeat = c.specificHeat ?? 800;
+  const conductivity = c.conductivity ?? (c.thermalInertia !== undefined ? c.thermalInertia ** 2 / (density * specificHeat) : NaN);
+  const profile = c.profile;
+  return {
+    properties: {
+      densitySurface: profile?.surfaceDensity ?? density,
+      densityDeep: profile?.deepDensity ?? density,
+      conductivitySurface: profile?.surfaceConductivity ?? conductivity,
+      conductivityDeep: profile?.deepConductivity ?? conductivity,
+      eFoldingDepthM: profile?.eFoldingDepth ?? Infinity,
+      specificHeatPolynomial: c.specificHeatPolynomial ?? [specificHeat],
+      radiativeChi: c.radiativeConductivity ?? 0,
+    },
+    grid: {
+      ...DEFAULT_GRID,
+      ...(c.grid?.topLayerFraction !== undefined ? { topLayerFraction: c.grid.topLayerFraction } : {}),
+      ...(c.grid?.growth !== undefined ? { growth: c.grid.growth } : {}),
+      ...(c.grid?.depthInSkinDepths !== undefined ? { depthInSkinDepths: c.grid.depthInSkinDepths } : {}),
+      ...(c.grid?.maxLayers !== undefined ? { maxLayers: c.grid.maxLayers } : {}),
+      ...(c.grid?.stepsPerDay !== undefined ? { stepsPerShortestPeriod: c.grid.stepsPerDay } : {}),
+    },
+    outputDepthsM: c.outputDepths ?? [],
+    interiorFluxWPerM2: c.interiorFlux ?? internalFlux,
   };
 }

@@ -64,6 +64,44 @@ export const layerSchema = z
   })
   .describe("A heat-storing layer; its areal heat capacity is ρ c × thickness");
 
+const positiveNumber = (what: string) => boundedNumber(what, (v) => v > 0, "a number > 0");
+
+export const columnSchema = z
+  .strictObject({
+    thermalInertia: positiveNumber("Thermal inertia √(kρc), J m⁻² K⁻¹ s⁻½ (a shortcut: k follows with ρ and c below or their defaults 1500, 800)").optional(),
+    conductivity: positiveNumber("Contact conductivity k, W m⁻¹ K⁻¹").optional(),
+    density: positiveNumber("Density ρ, kg m⁻³; default 1500").optional(),
+    specificHeat: positiveNumber("Specific heat c, J kg⁻¹ K⁻¹; default 800").optional(),
+    profile: z
+      .strictObject({
+        surfaceDensity: positiveNumber("Density at the surface, kg m⁻³"),
+        deepDensity: positiveNumber("Density at depth, kg m⁻³"),
+        surfaceConductivity: positiveNumber("Contact conductivity at the surface, W m⁻¹ K⁻¹"),
+        deepConductivity: positiveNumber("Contact conductivity at depth, W m⁻¹ K⁻¹"),
+        eFoldingDepth: quantity("length", "e-folding depth H of the density and conductivity", positive("m")),
+      })
+      .optional()
+      .describe("Depth-dependent density and conductivity, x(z) = x_d − (x_d − x_s) e^(−z/H)"),
+    radiativeConductivity: boundedNumber("χ in k = k_c (1 + χ (T/350 K)³); default 0", (v) => v >= 0, "a number ≥ 0").optional(),
+    specificHeatPolynomial: z
+      .array(z.number({ error: "numbers" }), { error: "a list of coefficients a₀, a₁, … of c(T) = Σ aᵢ Tⁱ (J kg⁻¹ K⁻¹)" })
+      .min(1)
+      .optional()
+      .describe("c(T) = Σ aᵢ Tⁱ, J kg⁻¹ K⁻¹, T in K (overrides specificHeat)"),
+    interiorFlux: quantity("flux", "Heat flux into the bottom; default body.internalFlux", nonNegative("W/m2")).optional(),
+    outputDepths: z.array(quantity("length", "A depth", nonNegative("m"))).optional().describe("Depths at which to write temperature series"),
+    grid: z
+      .strictObject({
+        topLayerFraction: boundedNumber("Top layer / shortest skin depth; default 0.05", (v) => v > 0 && v <= 1, "a number in (0, 1]").optional(),
+        growth: boundedNumber("Layer growth factor; default 1.15", (v) => v >= 1 && v <= 2, "a number from 1 to 2").optional(),
+        depthInSkinDepths: boundedNumber("Depth in skin depths of the longest period; default 4", (v) => v > 0 && v <= 50, "a number in (0, 50]").optional(),
+        maxLayers: boundedNumber("Cap on layers; default 200", (v) => Number.isInteger(v) && v >= 3 && v <= 5000, "an integer from 3 to 5000").optional(),
+        stepsPerDay: boundedNumber("Time steps per shortest forcing period; default 480", (v) => Number.isInteger(v) && v >= 16 && v <= 100000, "an integer from 16 to 100000").optional(),
+      })
+      .optional(),
+  })
+  .describe("A conduction column under the surface (instead of heatCapacity or layer)");
+
 export const bodySchema = z
   .strictObject({
     name: z.string().optional().describe("Name of the body (free text)"),
@@ -71,6 +109,7 @@ export const bodySchema = z
     emissivity: boundedNumber("Thermal emissivity, 0 < ε ≤ 1; default 1", (e) => e > 0 && e <= 1, "a number with 0 < ε ≤ 1").optional(),
     heatCapacity: quantity("arealHeatCapacity", "Areal heat capacity C", positive("J/m2/K")).optional(),
     layer: layerSchema.optional(),
+    column: columnSchema.optional(),
     internalFlux: quantity("flux", "Internal heat flux q; default 0", nonNegative("W/m2")).optional(),
     recirculation: boundedNumber(
       "daynight: recirculation efficiency ε ∈ [0, 1], the fraction of absorbed power carried to the night side",
