@@ -3,6 +3,7 @@
  *  - periodic solve: one case, e = 0.5, τ ≈ P, tolerance 1e-8, summary included (no output series);
  *    the same for τ = 100 P, which must cost at most 3× as much;
  *  - batch: 10,000 varied cases, one core;
+ *  - column: a 60-layer conduction column on a slow rotator to its periodic state (target < 1 s);
  *  - sweep: a 100,000-case lumped sweep with 2 workers, the 1 → 2 worker speed-up, and peak memory
  *    at 10,000 and 100,000 cases.
  * Prints lines of the form "periodic solve: 0.31 ms per case" and "batch: 3200 cases per second".
@@ -13,6 +14,8 @@ import { ASTRONOMICAL_UNIT_M, SOLAR_LUMINOSITY_W, SOLAR_MASS_KG, STEFAN_BOLTZMAN
 import type { ThermalCase } from "../src/model.js";
 import { equilibriumTemperature, GEOMETRY_FACTOR, orbitMeanStellarFlux } from "../src/physics/flux.js";
 import { simulate } from "../src/simulate.js";
+import { simulateColumn } from "../src/simulateColumn.js";
+import { DEFAULT_GRID } from "../src/physics/column.js";
 
 const PERIOD_S = 3.15576e7;
 
@@ -62,6 +65,40 @@ let worstResidual = 0;
 for (const c of cases) worstResidual = Math.max(worstResidual, Math.abs(simulate(c, options).summary.energyBalanceResidual));
 const seconds = (performance.now() - t0) / 1000;
 console.log(`batch: ${Math.round(cases.length / seconds)} cases per second (10,000 varied cases, one core; worst energy residual ${worstResidual.toExponential(1)})`);
+
+// A 60-layer conduction column on a slow rotator (solar day ≈ 30 d), to its periodic steady state.
+{
+  const synodic = 30 * 86_400;
+  const column: ThermalCase = {
+    ...benchCase(0.05, 1),
+    regime: "point",
+    orbit: { semiMajorAxisM: ASTRONOMICAL_UNIT_M, eccentricity: 0.05, periodSeconds: 12 * synodic, meanAnomalyAtStartRad: 0 },
+    location: { latitudeRad: 0, longitudeRad: 0 },
+    spin: { rateRadPerSecond: (13 * 2 * Math.PI) / (12 * synodic), ratio: { spin: 13, orbit: 1 }, obliquityRad: 0, equinoxTrueAnomalyRad: 0 },
+  };
+  const spec = {
+    properties: {
+      densitySurface: 1100,
+      densityDeep: 1800,
+      conductivitySurface: 7.4e-4,
+      conductivityDeep: 3.4e-3,
+      eFoldingDepthM: 0.07,
+      specificHeatPolynomial: [-3.6125, 2.7431, 2.3616e-3, -1.234e-5, 8.9093e-9],
+      radiativeChi: 2.7,
+    },
+    // Growth chosen so that the grid has 60 layers down to 4 orbital skin depths.
+    grid: { ...DEFAULT_GRID, growth: 1.057 },
+    outputDepthsM: [],
+    interiorFluxWPerM2: 0.018,
+  };
+  simulateColumn(column, spec); // warm-up
+  const started = performance.now();
+  const result = simulateColumn(column, spec);
+  const ms = performance.now() - started;
+  console.log(
+    `column: ${(ms / 1000).toFixed(2)} s to the periodic state (${result.solver.layers} layers, solar day 30 d, ${result.solver.stepsPerCycle} steps per cycle, ${result.solver.cycles} cycles; target < 1 s)`,
+  );
+}
 
 // Sweeps, each in a fresh process so that peak memory is its own (process.resourceUsage().maxRSS
 // covers the worker threads too). Single-threaded GC, as the CLI uses for sweeps.

@@ -269,3 +269,35 @@ describe("scenario keys for spin, surface and exchange", () => {
     expect(header).toContain("temperature_night_K,equilibrium_night_K,absorbed_flux_night_W_m2");
   });
 });
+
+describe("a conduction column from the CLI", () => {
+  it("runs the regolith demo with day and night temperatures, skin depths and the depth profile", () => {
+    const path = join(SCENARIOS, "sarvek-regolith.yaml");
+    const text = calorbit("run", path);
+    expect(text.status).toBe(0);
+    expect(text.stdout).toContain("Depth profile");
+    expect(text.stdout).toMatch(/skin depth\s+diurnal [\d.]+ m, orbital [\d.]+ m/);
+    const doc = JSON.parse(calorbit("run", path, "--json").stdout);
+    expect(doc.summary.temperature.minK).toBeLessThan(doc.summary.temperature.maxK);
+    expect(doc.summary.depthProfile.length).toBeGreaterThan(10);
+    for (const row of doc.summary.depthProfile) expect(Object.keys(row)).toEqual(["depthM", "minK", "maxK", "meanK"]);
+    // The daily wave dies out with depth.
+    const first = doc.summary.depthProfile[0];
+    const last = doc.summary.depthProfile.at(-1);
+    expect(last.maxK - last.minK).toBeLessThan(0.1 * (first.maxK - first.minK));
+    expect(Math.abs(doc.summary.energyBalanceResidual)).toBeLessThan(1e-6);
+    const out = join(dir, "column.csv");
+    calorbit("run", path, "--csv", out, "--samples", "30");
+    const header = readFileSync(out, "utf8").split("\n").find((l) => !l.startsWith("#"))!;
+    expect(header).toBe("time_s,distance_au,absorbed_flux_W_m2,surface_temperature_K,equilibrium_K,temperature_at_0.01m_K,temperature_at_0.05m_K,temperature_at_0.3m_K");
+  });
+
+  it("rejects a column given with a heat capacity, and a sweep or comparison of a column case says why", () => {
+    const text = validScenario.replace("heatCapacity: 1e8 J/m2/K", "heatCapacity: 1e8 J/m2/K, column: { thermalInertia: 50 }");
+    const r = calorbit("check", scenarioFile("colbad.yaml", text));
+    expect(r.status).toBe(2);
+    expect(r.stderr).toMatch(/^calorbit: body\.column: given .*; allowed: either a column or body\.heatCapacity \/ body\.layer, not both$/m);
+    const doc = JSON.parse(calorbit("compare", join(SCENARIOS, "sarvek-regolith.yaml"), "--json", "--regimes", "global").stdout);
+    expect(doc.results[0].error).toMatch(/column/);
+  });
+});

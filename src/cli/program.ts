@@ -109,10 +109,16 @@ function checkCommand(scenarioPath: string): void {
   const tau = model.radiativeTimeSeconds;
   const lines = [
     `${file}: valid scenario "${thermal.name}"`,
-    ...describeScenario(resolved),
+    ...describeScenario(resolved).filter((l) => !(thermal.column && l.startsWith("  body"))),
     `  derived   period ${duration(thermal.orbit.periodSeconds)} (${sig(thermal.orbit.periodSeconds, 6)} s), equilibrium of the cycle-mean flux ${model.meanFluxEquilibriumK.toFixed(2)} K,`,
-    `            radiative time τ = ${duration(tau)}, τ/P = ${sig(tau / thermal.orbit.periodSeconds)}`,
   ];
+  if (thermal.column) {
+    const p = thermal.column.properties;
+    const c = p.specificHeatPolynomial.reduceRight((acc, a) => acc * model.meanFluxEquilibriumK + a, 0);
+    lines.push(`            conduction column: thermal inertia at the surface ${sig(Math.sqrt(p.conductivitySurface * p.densitySurface * c))} J m⁻² K⁻¹ s⁻½ (at ${model.meanFluxEquilibriumK.toFixed(0)} K)`);
+  } else {
+    lines.push(`            radiative time τ = ${duration(tau)}, τ/P = ${sig(tau / thermal.orbit.periodSeconds)}`);
+  }
   if (model.solarDaySeconds !== undefined) {
     lines.push(`            solar day ${model.solarDaySeconds === null ? "none (synchronous)" : duration(model.solarDaySeconds)}, cycle ${model.cycleOrbits} orbit(s)${model.commensurate ? "" : " (not commensurate: seasonal convergence)"}`);
   }

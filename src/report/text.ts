@@ -7,7 +7,7 @@ import { VERSION } from "../version.js";
 import { au, days, degrees, duration, fixed, sig, solarLuminosities, solarMasses } from "./format.js";
 
 export const CAUTION = [
-  "Caution: these are first-order estimates from a lumped energy balance. For spacecraft hardware,",
+  "Caution: these are first-order estimates from a simplified thermal model. For spacecraft hardware,",
   "apply the margins of your organisation's thermal-control standard and verify with a qualified",
   "thermal model; nothing here replaces licensed engineering review.",
 ].join("\n");
