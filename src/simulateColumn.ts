@@ -58,6 +58,8 @@ export interface ColumnSimulation {
     /** Temperature series at the requested depths, same length as the time axis. */
     depths: { depthM: number; temperatureK: Float64Array }[];
   };
+  /** Layer temperatures over the cycle, thinned to at most 240 times: temperatureK[t][layer]. */
+  heatMap: { timesSeconds: number[]; temperatureK: number[][] };
   solver: { mode: "periodic"; layers: number; stepsPerCycle: number; cycles: number; newtonIterations: number; periodicityResidual: number; requestedTolerance: number };
 }
 
@@ -215,9 +217,16 @@ export function simulateColumn(thermal: ThermalCase, column: ColumnSpec, options
       d.temperatureK[j] = (1 - w) * layer(k, d.depthM) + w * layer(k + 1, d.depthM);
     }
   }
+  const stride = Math.max(1, Math.ceil((steps - 1) / 240));
+  const heatMap = { timesSeconds: [] as number[], temperatureK: [] as number[][] };
+  for (let kk = 0; kk < steps; kk += stride) {
+    heatMap.timesSeconds.push(times[kk]! - times[0]!);
+    heatMap.temperatureK.push(Array.from(result.layerK.subarray(kk * n, kk * n + n)));
+  }
   return {
     summary,
     series,
+    heatMap,
     solver: {
       mode: "periodic",
       layers: n,

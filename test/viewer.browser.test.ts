@@ -99,6 +99,37 @@ describe.skipIf(!haveBrowser)("the viewer in chromium", () => {
     expect(requests.every((r) => r.startsWith(url) || r.startsWith("data:") || r.startsWith("blob:"))).toBe(true);
   });
 
+  it("opens a sweep result as a heat map and a conduction column as a depth × time map", async () => {
+    const { mkdtempSync } = await import("node:fs");
+    const { tmpdir } = await import("node:os");
+    const sweepFile = join(mkdtempSync(join(tmpdir(), "calorbit-view-")), "sweep.csv");
+    const r = spawnSync(process.execPath, [CLI, "sweep", "--vary", "orbit.eccentricity=0:0.8:5", "--vary", "body.layer.thickness=1 m..100 m:4 log", "--quiet", "--out", sweepFile], { encoding: "utf8" });
+    expect(r.status).toBe(0);
+    for (const [target, mode] of [[sweepFile, "sweep"], [join(import.meta.dirname, "..", "scenarios", "sarvek-regolith.yaml"), "column"]] as const) {
+      const other = spawn(process.execPath, [CLI, "view", target, "--port", "0"], { stdio: ["ignore", "pipe", "pipe"] });
+      const otherUrl = await new Promise<string>((resolve) => other.stdout!.on("data", (c: Buffer) => {
+        const m = /(http:\/\/127\.0\.0\.1:\d+\/)/.exec(c.toString());
+        if (m) resolve(m[1]!);
+      }));
+      const p = await browser.newPage({ viewport: { width: 1400, height: 900 } });
+      await p.goto(otherUrl);
+      await p.waitForFunction(() => (window as unknown as { calorbitViewer?: unknown }).calorbitViewer !== undefined);
+      expect(await p.evaluate(() => (window as unknown as { calorbitViewer: { mode: string } }).calorbitViewer.mode)).toBe(mode);
+      // The heat map is drawn: a canvas with many distinct colours.
+      const colours = await p.evaluate(() => {
+        const c = document.querySelector<HTMLCanvasElement>("#chart-temperature canvas")!;
+        const d = c.getContext("2d")!.getImageData(0, 0, c.width, c.height).data;
+        const seen = new Set<number>();
+        for (let i = 0; i < d.length; i += 16) seen.add((d[i]! << 16) | (d[i + 1]! << 8) | d[i + 2]!);
+        return seen.size;
+      });
+      expect(colours).toBeGreaterThan(10);
+      await p.screenshot({ path: join(OUTPUT, `viewer-${mode}.png`) });
+      await p.close();
+      other.kill("SIGINT");
+    }
+  }, 60_000);
+
   it("stops cleanly on Ctrl-C", async () => {
     const exited = new Promise<number | null>((resolve) => server.on("exit", (code) => resolve(code)));
     server.kill("SIGINT");

@@ -9,6 +9,7 @@ import type { Regime, ThermalCase } from "../src/model.js";
 import { thermalCaseFromRecord, type ResultDocument } from "../src/report/document.js";
 import { simulate, type Simulation } from "../src/simulate.js";
 import { chartColumns, chartMarkers, type XAxis } from "../src/view/chartData.js";
+import { levels, type SweepTable } from "../src/view/sweepData.js";
 
 /** Okabe & Ito (2008) colour-blind-safe palette. */
 const COLOURS = { t: "#0072B2", teq: "#D55E00", night: "#56B4E9", window: "#009E73", marker: "#CC79A7", grey: "#555555" };
@@ -155,9 +156,261 @@ function markersPlugin(getMarkers: () => ReturnType<typeof chartMarkers> | null)
   };
 }
 
+/** A colour ramp from deep blue through teal to light yellow (perceptually ordered, colour-blind safe). */
+const RAMP = [
+  [13, 42, 110],
+  [0, 114, 178],
+  [0, 158, 115],
+  [160, 200, 80],
+  [240, 228, 66],
+];
+function rampColour(f: number): string {
+  const x = Math.min(1, Math.max(0, f)) * (RAMP.length - 1);
+  const i = Math.min(RAMP.length - 2, Math.floor(x));
+  const t = x - i;
+  const c = RAMP[i]!.map((v, k) => Math.round(v + t * (RAMP[i + 1]![k]! - v)));
+  return `rgb(${c[0]},${c[1]},${c[2]})`;
+}
+
+interface HeatMapSpec {
+  title: string;
+  xLabel: string;
+  yLabel: string;
+  valueLabel: string;
+  xs: number[]; // cell centres
+  ys: number[];
+  /** value(ix, iy), NaN for none. */
+  value: (ix: number, iy: number) => number;
+  yDown?: boolean;
+  logY?: boolean;
+}
+
+/** Draws a heat map with axes and a colour bar into a fresh canvas inside `host`. */
+function drawHeatMap(host: HTMLElement, spec: HeatMapSpec): void {
+  host.innerHTML = "";
+  const title = document.createElement("h3");
+  title.textContent = spec.title;
+  host.appendChild(title);
+  const canvas = document.createElement("canvas");
+  const width = Math.max(480, host.clientWidth || 800);
+  const height = 380;
+  canvas.width = width * devicePixelRatio;
+  canvas.height = height * devicePixelRatio;
+  canvas.style.width = `${width}px`;
+  canvas.style.height = `${height}px`;
+  canvas.setAttribute("role", "img");
+  canvas.setAttribute("aria-label", spec.title);
+  host.appendChild(canvas);
+  const ctx = canvas.getContext("2d")!;
+  ctx.scale(devicePixelRatio, devicePixelRatio);
+  const m = { left: 80, right: 110, top: 10, bottom: 50 };
+  const pw = width - m.left - m.right;
+  const ph = height - m.top - m.bottom;
+  let lo = Infinity;
+  let hi = -Infinity;
+  for (let ix = 0; ix < spec.xs.length; ix++) {
+    for (let iy = 0; iy < spec.ys.length; iy++) {
+      const v = spec.value(ix, iy);
+      if (Number.isFinite(v)) {
+        lo = Math.min(lo, v);
+        hi = Math.max(hi, v);
+      }
+    }
+  }
+  const cw = pw / spec.xs.length;
+  const ch = ph / spec.ys.length;
+  for (let ix = 0; ix < spec.xs.length; ix++) {
+    for (let iy = 0; iy < spec.ys.length; iy++) {
+      const v = spec.value(ix, iy);
+      ctx.fillStyle = Number.isFinite(v) ? rampColour((v - lo) / (hi - lo || 1)) : "#dddddd";
+      const row = spec.yDown ? iy : spec.ys.length - 1 - iy;
+      ctx.fillRect(m.left + ix * cw, m.top + row * ch, Math.ceil(cw) + 0.5, Math.ceil(ch) + 0.5);
+    }
+  }
+  ctx.strokeStyle = "#111";
+  ctx.strokeRect(m.left, m.top, pw, ph);
+  ctx.fillStyle = "#111";
+  ctx.font = "13px sans-serif";
+  ctx.textAlign = "center";
+  const xTicks = Math.min(6, spec.xs.length);
+  for (let t = 0; t < xTicks; t++) {
+    const ix = Math.round((t * (spec.xs.length - 1)) / Math.max(1, xTicks - 1));
+    ctx.fillText(Number(spec.xs[ix]!.toPrecision(3)).toString(), m.left + (ix + 0.5) * cw, m.top + ph + 18);
+  }
+  ctx.fillText(spec.xLabel, m.left + pw / 2, height - 8);
+  ctx.textAlign = "right";
+  const yTicks = Math.min(6, spec.ys.length);
+  for (let t = 0; t < yTicks; t++) {
+    const iy = Math.round((t * (spec.ys.length - 1)) / Math.max(1, yTicks - 1));
+    const row = spec.yDown ? iy : spec.ys.length - 1 - iy;
+    ctx.fillText(Number(spec.ys[iy]!.toPrecision(3)).toString(), m.left - 6, m.top + (row + 0.5) * ch + 4);
+  }
+  ctx.save();
+  ctx.translate(16, m.top + ph / 2);
+  ctx.rotate(-Math.PI / 2);
+  ctx.textAlign = "center";
+  ctx.fillText(spec.yLabel, 0, 0);
+  ctx.restore();
+  // Colour bar.
+  const bx = width - m.right + 24;
+  for (let k = 0; k < ph; k++) {
+    ctx.fillStyle = rampColour(1 - k / ph);
+    ctx.fillRect(bx, m.top + k, 16, 1.5);
+  }
+  ctx.fillStyle = "#111";
+  ctx.textAlign = "left";
+  ctx.fillText(Number(hi.toPrecision(4)).toString(), bx + 20, m.top + 10);
+  ctx.fillText(Number(lo.toPrecision(4)).toString(), bx + 20, m.top + ph);
+  ctx.save();
+  ctx.translate(width - 8, m.top + ph / 2);
+  ctx.rotate(-Math.PI / 2);
+  ctx.textAlign = "center";
+  ctx.fillText(spec.valueLabel, 0, 0);
+  ctx.restore();
+}
+
+function hideLumpedPanels(): void {
+  document.querySelector<HTMLElement>(".controls")!.querySelectorAll("label, .buttons").forEach((el) => ((el as HTMLElement).style.display = "none"));
+}
+
+/** A sweep result: a heat map of one metric over two varied inputs, or a family of curves over one. */
+function startSweep(file: string, table: SweepTable): void {
+  $("scenario-name").textContent = `— sweep ${file} (${table.rows} cases)`;
+  hideLumpedPanels();
+  document.querySelector<HTMLElement>(".summary")!.style.display = "none";
+  const panel = document.querySelector<HTMLElement>(".controls")!;
+  const select = (label: string, options: string[], initial: string) => {
+    const l = document.createElement("label");
+    l.textContent = label;
+    const sel = document.createElement("select");
+    for (const o of options) sel.add(new Option(o, o, o === initial, o === initial));
+    l.appendChild(sel);
+    panel.insertBefore(l, $("status"));
+    return sel;
+  };
+  const metric = select("metric", table.metrics, table.metrics.includes("T_swing_K") ? "T_swing_K" : table.metrics[0]!);
+  const xSel = select("x axis", table.inputs, table.inputs[0]!);
+  const ySel = select("y axis (heat map)", ["none (curves)", ...table.inputs], table.inputs[1] ?? "none (curves)");
+  const draw = () => {
+    const values = table.columns[metric.value]!;
+    const xCol = table.columns[xSel.value]!;
+    const xs = levels(xCol);
+    const y = ySel.value;
+    if (y !== "none (curves)" && y !== xSel.value) {
+      const yCol = table.columns[y]!;
+      const ys = levels(yCol);
+      // Mean over any other inputs that fall in the same cell.
+      const sum = new Float64Array(xs.length * ys.length);
+      const count = new Float64Array(xs.length * ys.length);
+      const xIndex = new Map(xs.map((v, i) => [v, i]));
+      const yIndex = new Map(ys.map((v, i) => [v, i]));
+      for (let r = 0; r < table.rows; r++) {
+        const v = values[r]!;
+        if (!table.ok[r] || !Number.isFinite(v)) continue;
+        const cell = xIndex.get(xCol[r]!)! + xs.length * yIndex.get(yCol[r]!)!;
+        sum[cell]! += v;
+        count[cell]! += 1;
+      }
+      drawHeatMap($("chart-temperature"), {
+        title: `${metric.value} over ${xSel.value} and ${y}`,
+        xLabel: xSel.value,
+        yLabel: y,
+        valueLabel: metric.value,
+        xs,
+        ys,
+        value: (ix, iy) => (count[ix + xs.length * iy]! > 0 ? sum[ix + xs.length * iy]! / count[ix + xs.length * iy]! : NaN),
+      });
+      $("status").textContent = xs.length * ys.length > table.rows ? "cells without a case are grey" : "";
+    } else {
+      // A family of curves: metric against x, one curve per level of the first other input.
+      const other = table.inputs.find((i) => i !== xSel.value);
+      const groups = other ? levels(table.columns[other]!).slice(0, 12) : [NaN];
+      const data: number[][] = [xs];
+      const series: uPlot.Series[] = [{ label: xSel.value }];
+      const palette = ["#0072B2", "#D55E00", "#009E73", "#E69F00", "#56B4E9", "#CC79A7", "#000000", "#F0E442"];
+      groups.forEach((g, gi) => {
+        const ys = xs.map((xv) => {
+          for (let r = 0; r < table.rows; r++) {
+            if (table.ok[r] && xCol[r] === xv && (!other || table.columns[other]![r] === g)) return values[r]!;
+          }
+          return NaN;
+        });
+        data.push(ys);
+        series.push({ label: other ? `${other} = ${Number(g.toPrecision(4))}` : metric.value, stroke: palette[gi % palette.length]!, width: 2 });
+      });
+      $("chart-temperature").innerHTML = "";
+      new uPlot(
+        { width: Math.max(480, $("chart-temperature").clientWidth || 800), height: 380, title: `${metric.value} against ${xSel.value}`, scales: { x: { time: false } }, axes: [{ label: xSel.value }, { label: metric.value }], series },
+        data as uPlot.AlignedData,
+        $("chart-temperature"),
+      );
+      $("status").textContent = groups.length === 12 ? "first 12 levels shown" : "";
+    }
+    (window as unknown as { calorbitViewer: unknown }).calorbitViewer = { mode: "sweep", metric: metric.value };
+  };
+  for (const sel of [metric, xSel, ySel]) sel.addEventListener("input", draw);
+  draw();
+}
+
+interface ColumnDoc {
+  scenario: { name: string };
+  summary: { temperature: { minK: number; maxK: number; meanK: number }; equilibrium: { minK: number; maxK: number; meanK: number }; skinDepths: { diurnalM: number | null; orbitalM: number }; lagSeconds: number | null; energyBalanceResidual: number; periodSeconds: number };
+  series: { timeSeconds: number[]; temperatureK: number[]; equilibriumK: number[] };
+  heatMap: { depthsM: number[]; timesSeconds: number[]; temperatureK: number[][] };
+}
+
+/** A conduction-column result: the surface against equilibrium, and temperature over depth and time. */
+function startColumn(doc: ColumnDoc): void {
+  $("scenario-name").textContent = `— ${doc.scenario.name} (conduction column)`;
+  hideLumpedPanels();
+  $("status").textContent = "conduction column: computed by the server (run the CLI to change it)";
+  const s = doc.series;
+  const days = s.timeSeconds.map((t) => t / DAY_S);
+  new uPlot(
+    {
+      width: Math.max(480, $("chart-orbit").clientWidth || 800),
+      height: 260,
+      title: "Surface temperature and instantaneous equilibrium",
+      scales: { x: { time: false } },
+      axes: [{ label: "time since start (d)" }, { label: "temperature (K)" }],
+      series: [{ label: "time (d)" }, { label: "T surface (K)", stroke: COLOURS.t, width: 2.5 }, { label: "T_eq (K)", stroke: COLOURS.teq, width: 2, dash: [8, 5] }],
+    },
+    [days, s.temperatureK, s.equilibriumK] as uPlot.AlignedData,
+    $("chart-orbit"),
+  );
+  const hm = doc.heatMap;
+  drawHeatMap($("chart-temperature"), {
+    title: "Temperature against depth and time",
+    xLabel: "time since start (d)",
+    yLabel: "depth (m)",
+    valueLabel: "temperature (K)",
+    xs: hm.timesSeconds.map((t) => t / DAY_S),
+    ys: hm.depthsM,
+    value: (ix, iy) => hm.temperatureK[ix]![iy]!,
+    yDown: true,
+  });
+  const set = (id: string, text: string) => (document.querySelector(`[data-testid="${id}"]`)!.textContent = text);
+  set("t-min", fmt(doc.summary.temperature.minK));
+  set("t-max", fmt(doc.summary.temperature.maxK));
+  set("t-mean", fmt(doc.summary.temperature.meanK));
+  set("teq-min", fmt(doc.summary.equilibrium.minK));
+  set("teq-max", fmt(doc.summary.equilibrium.maxK));
+  set("teq-mean", fmt(doc.summary.equilibrium.meanK));
+  set("lag", doc.summary.lagSeconds === null ? "none (circular)" : `${fmt(doc.summary.lagSeconds / DAY_S, 1)} d`);
+  set("damping", "—");
+  set("tau", `skin depths ${doc.summary.skinDepths.diurnalM !== null ? `${doc.summary.skinDepths.diurnalM.toPrecision(2)} m / ` : ""}${doc.summary.skinDepths.orbitalM.toPrecision(2)} m`);
+  set("in-range", "—");
+  set("residual", doc.summary.energyBalanceResidual.toExponential(1));
+  set("period", `${fmt(doc.summary.periodSeconds / DAY_S, 2)} d`);
+  (window as unknown as { calorbitViewer: unknown }).calorbitViewer = { mode: "column", summary: doc.summary };
+}
+
 async function start(): Promise<void> {
   const response = await fetch("result.json");
-  const doc = (await response.json()) as ResultDocument;
+  const raw = (await response.json()) as { kind?: string };
+  if (raw.kind === "sweep") return startSweep((raw as { file: string }).file, (raw as unknown as { table: SweepTable }).table);
+  if (raw.kind === "column") return startColumn(raw as unknown as ColumnDoc);
+  const doc = raw as ResultDocument;
   const base = thermalCaseFromRecord(doc.scenario);
   $("scenario-name").textContent = `— ${base.name}`;
   const initial = stateFromCase(base);

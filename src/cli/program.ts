@@ -11,6 +11,7 @@ import { resultDocument } from "../report/document.js";
 import { seriesCsv } from "../report/csv.js";
 import { columnCsv, columnDocument, columnText } from "../report/columnReport.js";
 import { simulateColumn } from "../simulateColumn.js";
+import { parseSweepText } from "../view/sweepData.js";
 import { temperatureSvg } from "../report/svg.js";
 import { describeScenario, summaryText } from "../report/text.js";
 import { duration, sig } from "../report/format.js";
@@ -267,11 +268,18 @@ interface ViewFlags {
 async function viewCommand(path: string | undefined, flags: ViewFlags): Promise<void> {
   const port = integerFlag("--port", flags.port, 0, 65535);
   let resultJson: string;
-  if (path !== undefined && path.toLowerCase().endsWith(".json") && looksLikeResult(path)) {
+  if (path !== undefined && isSweepFile(path)) {
+    resultJson = JSON.stringify({ kind: "sweep", file: path, table: parseSweepText(readFileSync(path, "utf8")) });
+  } else if (path !== undefined && path.toLowerCase().endsWith(".json") && looksLikeResult(path)) {
     resultJson = readFileSync(path, "utf8");
   } else {
     const { resolved } = loadScenario(path);
-    resultJson = JSON.stringify(resultDocument(resolved, simulate(resolved.thermal, { samples: 2000 }), true));
+    if (resolved.thermal.column) {
+      const col = simulateColumn(resolved.thermal, resolved.thermal.column, { samples: 400 });
+      resultJson = JSON.stringify({ kind: "column", ...columnDocument(resolved, col, true), heatMap: columnHeatMap(col) });
+    } else {
+      resultJson = JSON.stringify(resultDocument(resolved, simulate(resolved.thermal, { samples: 2000 }), true));
+    }
   }
   const viewer = await startViewServer(resultJson, port);
   process.stdout.write(`calorbit viewer at ${viewer.url}  (Ctrl-C stops it)\n`);
@@ -285,6 +293,21 @@ async function viewCommand(path: string | undefined, flags: ViewFlags): Promise<
     process.once("SIGINT", stop);
     process.once("SIGTERM", stop);
   });
+}
+
+/** A file written by `calorbit sweep` (its first line says so). */
+function isSweepFile(path: string): boolean {
+  try {
+    const head = readFileSync(path, "utf8").slice(0, 200);
+    return /^# calorbit [^\n]* sweep\n/.test(head);
+  } catch {
+    return false;
+  }
+}
+
+/** Temperature against depth and time for the viewer's heat map: layer centres × the cycle's steps (thinned). */
+function columnHeatMap(col: ReturnType<typeof simulateColumn>) {
+  return { depthsM: col.summary.depthProfile.map((r) => r.depthM), timesSeconds: col.heatMap.timesSeconds, temperatureK: col.heatMap.temperatureK };
 }
 
 /** A result file from `run --json --series` (not a scenario written as JSON). */
@@ -394,7 +417,7 @@ Examples:
   program
     .command("view")
     .description("open the interactive viewer in a browser (a local server on 127.0.0.1)")
-    .argument("[file]", "a scenario, or a result from run --json --series; the bundled demo when omitted")
+    .argument("[file]", "a scenario, a result from run --json --series, or a sweep file; the bundled demo when omitted")
     .option("--port <n>", "port to listen on (0: a free one)", "0")
     .addHelpText("after", `\nExamples:\n  calorbit view\n  calorbit view scenarios/korvath-locked.yaml --port 8765`)
     .action((file: string | undefined, flags: ViewFlags) => viewCommand(file, flags));
