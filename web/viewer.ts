@@ -13,7 +13,7 @@ import { levels, type SweepTable } from "../src/view/sweepData.js";
 
 /** Okabe & Ito (2008) colour-blind-safe palette. */
 const COLOURS = { t: "#0072B2", teq: "#D55E00", night: "#56B4E9", window: "#009E73", marker: "#CC79A7", grey: "#555555" };
-const OVERLAY_COLOURS: Record<string, string> = { global: "#0072B2", dayside: "#E69F00", substellar: "#D55E00", daynight: "#009E73" };
+const OVERLAY_COLOURS: Record<string, string> = { global: "#0072B2", dayside: "#E69F00", substellar: "#D55E00", daynight: "#009E73", band: "#CC79A7", point: "#000000" };
 const SAMPLES = 2000;
 
 interface ViewState {
@@ -474,12 +474,12 @@ async function start(): Promise<void> {
       series.push({ label: "T night (K)", stroke: COLOURS.night, width: 2.5 });
     }
     if (state.overlay) {
-      for (const regime of ["global", "dayside", "substellar"] as const) {
+      for (const regime of ["global", "dayside", "substellar", "daynight", "band", "point"] as const) {
         if (regime === state.regime) continue;
         try {
           const other = simulate({ ...thermal, regime }, { samples: SAMPLES });
           data.push(Array.from(other.series.temperatureK));
-          series.push({ label: `T ${regime} (K)`, stroke: OVERLAY_COLOURS[regime]!, width: 1.5, dash: [2, 3] });
+          series.push({ label: `T ${regime}${regime === "daynight" ? " day" : ""} (K)`, stroke: OVERLAY_COLOURS[regime]!, width: 1.5, dash: [2, 3] });
         } catch {
           /* a regime that cannot run here is simply not overlaid */
         }

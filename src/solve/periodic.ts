@@ -278,8 +278,6 @@ export function solvePeriodic(problem: PeriodicProblem, options: PeriodicOptions
       minContraction = Math.min(minContraction, Math.max(1 - monodromy[i]!, 0));
       residual = Math.max(residual, Math.abs(g[i]!) / problem.scale[i]!);
     }
-    // Stagnation: two sampled passes at the final tolerance that fail to halve the residual mean g
-    // has reached the integrator's noise floor; take the start and report the residual reached.
     lastResidual = residual;
     // The start state's error is g/(1 − Φ'): |g| ≤ share·rtol·scale·(1 − Φ') makes y₀ meet rtol.
     const memory = Math.min(1, Math.max(minContraction, 1e-300));
