@@ -95,10 +95,10 @@ describe.skipIf(!haveBrowser)("the viewer in chromium", () => {
     await page.keyboard.press("ArrowRight");
     await page.waitForFunction(() => new URL(location.href).searchParams.get("e") === "0.610");
     // Overlaying the other regimes adds their curves to the legend.
-    const before = await page.locator("#chart-temperature .u-legend .u-series").count();
+    const legendBefore = await page.locator("#chart-temperature .u-legend .u-series").count();
     await page.check("#in-overlay");
-    await page.waitForFunction((n) => document.querySelectorAll("#chart-temperature .u-legend .u-series").length > n, before);
-    expect(await page.locator("#chart-temperature .u-legend .u-series").count()).toBeGreaterThanOrEqual(before + 4);
+    await page.waitForFunction((n) => document.querySelectorAll("#chart-temperature .u-legend .u-series").length > n, legendBefore);
+    expect(await page.locator("#chart-temperature .u-legend .u-series").count()).toBeGreaterThanOrEqual(legendBefore + 4);
     await page.uncheck("#in-overlay");
     mkdirSync(OUTPUT, { recursive: true });
     await page.screenshot({ path: join(OUTPUT, "viewer.png") });
