@@ -6,7 +6,7 @@
 import { CalorbitError } from "./errors.js";
 import type { Regime, ThermalCase } from "./model.js";
 import { simulate, type Simulation, type SimulateOptions } from "./simulate.js";
-import { buildThermalModel } from "./thermalModel.js";
+import { buildThermalModel, gcd } from "./thermalModel.js";
 
 /** One state's temperature and equilibrium on the shared time axis. */
 export interface CompareColumn {
@@ -30,10 +30,6 @@ export interface Comparison {
   timeSeconds: Float64Array;
   /** Orbits spanned by the shared axis (the least common multiple of the regimes' cycles). */
   spanOrbits: number;
-}
-
-function gcd(a: number, b: number): number {
-  return b === 0 ? a : gcd(b, a % b);
 }
 
 export function compareRegimes(thermal: ThermalCase, regimes: readonly Regime[], options: SimulateOptions & { samples: number }): Comparison {

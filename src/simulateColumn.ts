@@ -14,6 +14,7 @@ import { stellarFlux } from "./physics/flux.js";
 import { solveColumnPeriodic } from "./solve/columnSolver.js";
 import { buildThermalModel } from "./thermalModel.js";
 import type { TemperatureStats } from "./analysis/summarise.js";
+import { positiveModulo } from "./analysis/cycleStatistics.js";
 
 const TWO_PI = 2 * Math.PI;
 
@@ -246,11 +247,6 @@ function fractionInside(a: number, b: number, low: number, high: number): number
   const hi = Math.max(a, b);
   const overlap = Math.max(0, Math.min(hi, high) - Math.max(lo, low));
   return overlap / (hi - lo);
-}
-
-function positiveModulo(x: number, m: number): number {
-  const r = x - m * Math.floor(x / m);
-  return r >= m ? r - m : r;
 }
 
 export { DEFAULT_GRID };

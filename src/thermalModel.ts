@@ -62,7 +62,8 @@ function statisticsPointsPerOrbit(eccentricity: number, solarDaysPerOrbit: numbe
   return Math.min(1 << 20, Math.max(forPeriastron, forCorners, Math.ceil(48 * solarDaysPerOrbit)));
 }
 
-function gcd(a: number, b: number): number {
+/** Greatest common divisor of two non-negative integers. */
+export function gcd(a: number, b: number): number {
   return b === 0 ? a : gcd(b, a % b);
 }
 

@@ -214,3 +214,9 @@ export function explicitTimeMean(xs: Float64Array, f: (x: number) => number, dtd
   }
   return sum / weight;
 }
+
+/** x modulo m in [0, m) (also for negative x). */
+export function positiveModulo(x: number, m: number): number {
+  const r = x - m * Math.floor(x / m);
+  return r >= m ? r - m : r;
+}

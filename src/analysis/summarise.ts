@@ -7,7 +7,7 @@
 import { wienPeakWavelengthM } from "../physics/flux.js";
 import { firstPeriastronSeconds, timeAtEccentric, type Orbit } from "../physics/orbit.js";
 import type { ThermalModel } from "../thermalModel.js";
-import { explicitTimeMean, hermiteExtremum, refinedExtremum, timeInWindow, timeMean } from "./cycleStatistics.js";
+import { explicitTimeMean, hermiteExtremum, positiveModulo, refinedExtremum, timeInWindow, timeMean } from "./cycleStatistics.js";
 
 export interface TemperatureStats {
   minK: number;
@@ -189,9 +189,4 @@ function stateSummary(
 
 function stats(minK: number, maxK: number, meanK: number): TemperatureStats {
   return { minK, maxK, meanK, swingK: maxK - minK };
-}
-
-function positiveModulo(x: number, m: number): number {
-  const r = x - m * Math.floor(x / m);
-  return r >= m ? r - m : r;
 }

@@ -11,6 +11,7 @@ import { resultDocument } from "../report/document.js";
 import { seriesCsv } from "../report/csv.js";
 import { columnCsv, columnDocument, columnText } from "../report/columnReport.js";
 import { simulateColumn } from "../simulateColumn.js";
+import { specificHeatAt } from "../physics/column.js";
 import { parseSweepText } from "../view/sweepData.js";
 import { temperatureSvg } from "../report/svg.js";
 import { describeScenario, summaryText } from "../report/text.js";
@@ -115,7 +116,7 @@ function checkCommand(scenarioPath: string): void {
   ];
   if (thermal.column) {
     const p = thermal.column.properties;
-    const c = p.specificHeatPolynomial.reduceRight((acc, a) => acc * model.meanFluxEquilibriumK + a, 0);
+    const c = specificHeatAt(p, model.meanFluxEquilibriumK);
     lines.push(`            conduction column: thermal inertia at the surface ${sig(Math.sqrt(p.conductivitySurface * p.densitySurface * c))} J m⁻² K⁻¹ s⁻½ (at ${model.meanFluxEquilibriumK.toFixed(0)} K)`);
   } else {
     lines.push(`            radiative time τ = ${duration(tau)}, τ/P = ${sig(tau / thermal.orbit.periodSeconds)}`);

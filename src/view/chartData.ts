@@ -3,7 +3,7 @@
  * takes them, x ascending, with x in days or as an orbital-phase angle; markers for periastron
  * passages and the temperature maximum; the temperature window. Pure: no DOM.
  */
-import { DAY_S } from "../constants.js";
+import { ASTRONOMICAL_UNIT_M, DAY_S } from "../constants.js";
 
 export type XAxis = "time" | "meanAnomaly" | "trueAnomaly";
 
@@ -27,8 +27,6 @@ export interface ChartColumns {
   distanceAu: number[];
   absorbedWPerM2: number[];
 }
-
-const AU = 149_597_870_700;
 
 /** Unwraps an angle series (rad) to ascend continuously, in degrees from the first sample's revolution. */
 function unwrapDegrees(values: ArrayLike<number>): number[] {
@@ -59,7 +57,7 @@ export function chartColumns(series: SeriesLike, axis: XAxis): ChartColumns {
     xLabel,
     temperatureK: Array.from(series.temperatureK),
     equilibriumK: Array.from(series.equilibriumK),
-    distanceAu: Array.from(series.distanceM, (r) => r / AU),
+    distanceAu: Array.from(series.distanceM, (r) => r / ASTRONOMICAL_UNIT_M),
     absorbedWPerM2: Array.from(series.absorbedWPerM2),
   };
 }
