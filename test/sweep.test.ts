@@ -3,6 +3,7 @@ import { mkdtempSync, readFileSync, statSync, truncateSync, writeFileSync } from
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { beforeAll, describe, expect, it } from "vitest";
+import { mergeShards } from "../src/cli/sweep.js";
 import { caseCount, caseMaker, parseShard, shardIds } from "../src/sweep/design.js";
 import { parseAxis } from "../src/sweep/spec.js";
 
@@ -169,5 +170,18 @@ describe("calorbit sweep", () => {
     const missing = sweep("merge", parts[0]!, parts[2]!, "--out", join(dir, "m-bad.csv"));
     expect(missing.status).toBe(2);
     expect(missing.stderr).toMatch(/5 missing \(case ids 1, 4, 7, 10, 13\); nothing written/);
+  });
+});
+
+describe("reading sweep files in blocks", () => {
+  it("keeps multi-byte characters whole across block boundaries (files over 1 MiB)", () => {
+    const file = join(dir, "big-shard.csv");
+    // Rows dense in "≤" (3 bytes in UTF-8), so that the 1 MiB block boundaries fall inside one.
+    const rows = Array.from({ length: 30_000 }, (_, i) => `${i},0.${i % 10},"error: given 1.${i % 7}; allowed: 0 ≤ e < 1 ${"≤".repeat(40)}"`);
+    writeFileSync(file, ["# calorbit 0.1.0 sweep", '# definition: {"format":"csv"}', "# shard: 1/1", "case_id,orbit.eccentricity,status", ...rows].join("\n") + "\n");
+    expect(statSync(file).size).toBeGreaterThan(4 * 1024 * 1024);
+    const out = join(dir, "big-merged.csv");
+    expect(mergeShards([file], out, () => rows.length).cases).toBe(30_000);
+    expect(readFileSync(out, "utf8").split("\n").filter((l) => /^\d/.test(l))).toEqual(rows);
   });
 });

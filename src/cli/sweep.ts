@@ -5,6 +5,7 @@
  */
 import { closeSync, existsSync, fstatSync, ftruncateSync, openSync, readSync, renameSync, rmSync, writeSync } from "node:fs";
 import { cpus } from "node:os";
+import { StringDecoder } from "node:string_decoder";
 import { Worker } from "node:worker_threads";
 import cliProgress from "cli-progress";
 import { CalorbitError } from "../errors.js";
@@ -22,34 +23,54 @@ export interface SweepRun {
   quiet: boolean;
 }
 
-/** Reads a file line by line in fixed blocks, calling `onLine(line, endOffset)` for each complete line. */
-function scanLines(fd: number, onLine: (line: string, end: number) => boolean): { completeEnd: number; size: number } {
-  const size = fstatSync(fd).size;
-  const buffer = Buffer.alloc(READ_BLOCK);
-  let carry = "";
-  let carryStart = 0;
-  let offset = 0;
-  let completeEnd = 0;
-  while (offset < size) {
-    const read = readSync(fd, buffer, 0, READ_BLOCK, offset);
-    if (read <= 0) break;
-    const text = carry + buffer.toString("utf8", 0, read);
-    const base = carryStart;
-    let start = 0;
-    for (;;) {
-      const nl = text.indexOf("\n", start);
-      if (nl < 0) break;
-      const line = text.slice(start, nl);
-      const end = base + Buffer.byteLength(text.slice(0, nl + 1), "utf8");
-      completeEnd = end;
-      if (!onLine(line, end)) return { completeEnd, size };
-      start = nl + 1;
-    }
-    carry = text.slice(start);
-    carryStart = base + Buffer.byteLength(text.slice(0, start), "utf8");
-    offset += read;
+/**
+ * Reads a file's lines in fixed-size blocks, on demand (sync; memory bounded by the block). A
+ * StringDecoder keeps characters split across blocks whole (status lines carry "≤"), and
+ * `endOffset` is the byte offset just past the last line returned, for cutting off a torn row.
+ */
+class LineReader {
+  private readonly buffer = Buffer.alloc(READ_BLOCK);
+  private readonly decoder = new StringDecoder("utf8");
+  private pending = "";
+  private cursor = 0;
+  private offset = 0;
+  private eof = false;
+  endOffset = 0;
+
+  /** Reads from an open descriptor; closes it at the end only if `owned`. */
+  constructor(
+    private readonly fd: number,
+    private readonly owned: boolean,
+  ) {}
+
+  static open(file: string): LineReader {
+    return new LineReader(openSync(file, "r"), true);
   }
-  return { completeEnd, size };
+
+  /** The next complete line, or null at the end (a torn last line is not returned). */
+  next(): string | null {
+    for (;;) {
+      const nl = this.pending.indexOf("\n", this.cursor);
+      if (nl >= 0) {
+        const line = this.pending.slice(this.cursor, nl);
+        this.cursor = nl + 1;
+        this.endOffset += Buffer.byteLength(line, "utf8") + 1;
+        return line;
+      }
+      if (this.eof) return null;
+      const read = readSync(this.fd, this.buffer, 0, READ_BLOCK, this.offset);
+      const rest = this.pending.slice(this.cursor);
+      this.cursor = 0;
+      if (read <= 0) {
+        this.eof = true;
+        this.pending = rest + this.decoder.end();
+        if (this.owned) closeSync(this.fd);
+        continue;
+      }
+      this.offset += read;
+      this.pending = rest + this.decoder.write(this.buffer.subarray(0, read));
+    }
+  }
 }
 
 function refuse(message: string, path: string, allowed: string): CalorbitError {
@@ -75,23 +96,24 @@ function openOutput(run: SweepRun): { fd: number; done: number } {
   let headerIndex = 0;
   let done = 0;
   let problem: string | null = null;
-  const { completeEnd, size } = scanLines(fd, (line) => {
+  const reader = new LineReader(fd, false);
+  for (let line = reader.next(); line !== null && problem === null; line = reader.next()) {
     if (headerIndex < header.length) {
       if (line !== header[headerIndex]) {
         problem = headerIndex === 1 || headerIndex === 2 ? "it was written by a different sweep definition or shard" : "its header is not a calorbit sweep header";
-        return false;
       }
       headerIndex++;
-      return true;
+      continue;
     }
     const next = expected.next();
     if (next.done || lineCaseId(line, run.definition.format) !== next.value) {
       problem = `its rows are not this sweep's cases in order (at row ${done + 1})`;
-      return false;
+    } else {
+      done++;
     }
-    done++;
-    return true;
-  });
+  }
+  const completeEnd = reader.endOffset;
+  const size = fstatSync(fd).size;
   if (problem) {
     closeSync(fd);
     throw refuse(`${path}: refusing to resume: ${problem}`, "--out", "the same command that wrote the file, or a new file name");
@@ -190,40 +212,6 @@ export async function runSweep(run: SweepRun): Promise<{ written: number; skippe
   return { written, skipped: output.done };
 }
 
-/** Reads one file's lines in fixed-size blocks, on demand (sync; memory bounded by the block). */
-class LineReader {
-  private readonly fd: number;
-  private readonly buffer = Buffer.alloc(READ_BLOCK);
-  private pending = "";
-  private offset = 0;
-  private eof = false;
-
-  constructor(readonly file: string) {
-    this.fd = openSync(file, "r");
-  }
-
-  /** The next complete line, or null at the end (a torn last line is dropped). */
-  next(): string | null {
-    for (;;) {
-      const nl = this.pending.indexOf("\n");
-      if (nl >= 0) {
-        const line = this.pending.slice(0, nl);
-        this.pending = this.pending.slice(nl + 1);
-        return line;
-      }
-      if (this.eof) return null;
-      const read = readSync(this.fd, this.buffer, 0, READ_BLOCK, this.offset);
-      if (read <= 0) {
-        this.eof = true;
-        closeSync(this.fd);
-        continue;
-      }
-      this.offset += read;
-      this.pending += this.buffer.toString("utf8", 0, read);
-    }
-  }
-}
-
 /**
  * Joins shard files of one sweep into one file in case-id order, checking that every case is
  * present exactly once. A streaming k-way merge by case id: each shard is already in id order.
@@ -232,7 +220,7 @@ export function mergeShards(files: string[], out: string, totalFor: (definitionJ
   if (files.length === 0) throw refuse("sweep merge: no shard files given", "files", "one or more shard files");
   for (const file of files) if (!existsSync(file)) throw refuse(`${file}: no such file`, "files", "existing shard files");
   const readers = files.map((file) => {
-    const reader = new LineReader(file);
+    const reader = LineReader.open(file);
     const header: string[] = [];
     let line = reader.next();
     while (line !== null && line.startsWith("#")) {
