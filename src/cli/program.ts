@@ -111,7 +111,7 @@ function checkCommand(scenarioPath: string): void {
   const tau = model.radiativeTimeSeconds;
   const lines = [
     `${file}: valid scenario "${thermal.name}"`,
-    ...describeScenario(resolved).filter((l) => !(thermal.column && l.startsWith("  body"))),
+    ...describeScenario(resolved),
     `  derived   period ${duration(thermal.orbit.periodSeconds)} (${sig(thermal.orbit.periodSeconds, 6)} s), equilibrium of the cycle-mean flux ${model.meanFluxEquilibriumK.toFixed(2)} K,`,
   ];
   if (thermal.column) {

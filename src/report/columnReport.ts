@@ -8,12 +8,8 @@ import { CAUTION, describeScenario } from "./text.js";
 
 export function columnText(resolved: ResolvedScenario, sim: ColumnSimulation): string {
   const s = sim.summary;
-  const c = resolved.thermal.column!;
-  const p = c.properties;
-  const lines = [`calorbit ${VERSION} — ${resolved.thermal.name}`, ...describeScenario(resolved).filter((l) => !l.startsWith("  body"))];
+  const lines = [`calorbit ${VERSION} — ${resolved.thermal.name}`, ...describeScenario(resolved)];
   lines.push(
-    `  body      A = ${resolved.thermal.surface.albedo}, ε = ${resolved.thermal.surface.emissivity}; conduction column, ${sim.solver.layers} layers, thermal inertia at the surface ${sig(s.thermalInertiaSurface)} J m⁻² K⁻¹ s⁻½`,
-    `  column    ρ ${sig(p.densitySurface)} → ${sig(p.densityDeep)} kg m⁻³, k ${sig(p.conductivitySurface)} → ${sig(p.conductivityDeep)} W m⁻¹ K⁻¹${Number.isFinite(p.eFoldingDepthM) ? ` (e-folding ${sig(p.eFoldingDepthM)} m)` : ""}${p.radiativeChi ? `, χ = ${p.radiativeChi}` : ""}, interior flux ${sig(c.interiorFluxWPerM2)} W m⁻²`,
     "",
     "Periodic steady state of the column (surface)",
     `  ${"".padEnd(13)}${"min".padStart(12)}${"max".padStart(12)}${"mean".padStart(12)}${"swing".padStart(11)}`,
@@ -21,6 +17,7 @@ export function columnText(resolved: ResolvedScenario, sim: ColumnSimulation): s
   const row = (label: string, t: { minK: number; maxK: number; meanK: number; swingK: number }) =>
     `  ${label.padEnd(13)}${fixed(t.minK, 2).padStart(10)} K${fixed(t.maxK, 2).padStart(10)} K${fixed(t.meanK, 2).padStart(10)} K${fixed(t.swingK, 2).padStart(9)} K`;
   lines.push(row("surface", s.temperature), row("equilibrium", s.equilibrium));
+  lines.push(`  column      ${sim.solver.layers} layers; thermal inertia at the surface ${sig(s.thermalInertiaSurface)} J m⁻² K⁻¹ s⁻½`);
   if (s.solarDaySeconds !== undefined) lines.push(`  solar day   ${s.solarDaySeconds === null ? "none (synchronous)" : duration(s.solarDaySeconds)}`);
   lines.push(
     `  skin depth  ${s.skinDepths.diurnalM !== null ? `diurnal ${sig(s.skinDepths.diurnalM)} m, ` : ""}orbital ${sig(s.skinDepths.orbitalM)} m`,

@@ -38,14 +38,24 @@ export function describeScenario(resolved: ResolvedScenario): string[] {
   lines.push(
     `  orbit     a = ${sig(au(orbit.semiMajorAxisM), 4)} au, e = ${orbit.eccentricity}, P = ${sig(days(orbit.periodSeconds), 5)} d (${periodWhy}), ${start}`,
   );
-  const origin = resolved.heatCapacityOrigin;
-  const cText =
-    origin.kind === "layer"
-      ? ` (${origin.material}, ${sig(origin.thicknessM)} m: ρ = ${origin.densityKgPerM3} kg m⁻³, c = ${origin.specificHeatJPerKgK} J kg⁻¹ K⁻¹)`
-      : "";
-  lines.push(
-    `  body      A = ${surface.albedo}, ε = ${surface.emissivity}, C = ${sig(surface.heatCapacityJPerM2K)} J m⁻² K⁻¹${cText}, q = ${sig(surface.internalFluxWPerM2)} W m⁻²`,
-  );
+  if (thermal.column) {
+    const c = thermal.column;
+    const p = c.properties;
+    const heat = p.specificHeatPolynomial.length === 1 ? `c = ${sig(p.specificHeatPolynomial[0]!)} J kg⁻¹ K⁻¹` : "c(T) polynomial";
+    lines.push(
+      `  body      A = ${surface.albedo}, ε = ${surface.emissivity}; a conduction column, interior flux ${sig(c.interiorFluxWPerM2)} W m⁻²`,
+      `  column    ρ ${sig(p.densitySurface)} → ${sig(p.densityDeep)} kg m⁻³, k ${sig(p.conductivitySurface)} → ${sig(p.conductivityDeep)} W m⁻¹ K⁻¹${Number.isFinite(p.eFoldingDepthM) ? ` (e-folding ${sig(p.eFoldingDepthM)} m)` : ""}${p.radiativeChi ? `, χ = ${p.radiativeChi}` : ""}, ${heat}`,
+    );
+  } else {
+    const origin = resolved.heatCapacityOrigin;
+    const cText =
+      origin.kind === "layer"
+        ? ` (${origin.material}, ${sig(origin.thicknessM)} m: ρ = ${origin.densityKgPerM3} kg m⁻³, c = ${origin.specificHeatJPerKgK} J kg⁻¹ K⁻¹)`
+        : "";
+    lines.push(
+      `  body      A = ${surface.albedo}, ε = ${surface.emissivity}, C = ${sig(surface.heatCapacityJPerM2K)} J m⁻² K⁻¹${cText}, q = ${sig(surface.internalFluxWPerM2)} W m⁻²`,
+    );
+  }
   lines.push(`  regime    ${thermal.regime} (${REGIME_WORDS[thermal.regime]})`);
   if (thermal.regime === "daynight") {
     const ex = thermal.exchange ?? { recirculation: 0, coefficientWPerM2K: 0, weighting: "uniform" };
