@@ -5,7 +5,7 @@
  */
 import { CalorbitError, requireNumber } from "./errors.js";
 import type { ColumnSpec, ThermalCase } from "./model.js";
-import { buildColumnGrid, DEFAULT_GRID, skinDepthM, specificHeatAt } from "./physics/column.js";
+import { buildColumnGrid, skinDepthM, specificHeatAt } from "./physics/column.js";
 import { STEFAN_BOLTZMANN } from "./constants.js";
 import { wienPeakWavelengthM } from "./physics/flux.js";
 import { eccentricAnomaly, trueAnomalyFromEccentric } from "./physics/kepler.js";
@@ -249,4 +249,3 @@ function fractionInside(a: number, b: number, low: number, high: number): number
   return overlap / (hi - lo);
 }
 
-export { DEFAULT_GRID };

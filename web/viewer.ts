@@ -10,10 +10,8 @@ import { thermalCaseFromRecord, type ResultDocument } from "../src/report/docume
 import { simulate, type Simulation } from "../src/simulate.js";
 import { chartColumns, chartMarkers, type XAxis } from "../src/view/chartData.js";
 import { levels, type SweepTable } from "../src/view/sweepData.js";
+import { CHART_COLOURS, REGIME_COLOURS, SERIES_CYCLE } from "../src/view/palette.js";
 
-/** Okabe & Ito (2008) colour-blind-safe palette. */
-const COLOURS = { t: "#0072B2", teq: "#D55E00", night: "#56B4E9", window: "#009E73", marker: "#CC79A7", grey: "#555555" };
-const OVERLAY_COLOURS: Record<string, string> = { global: "#0072B2", dayside: "#E69F00", substellar: "#D55E00", daynight: "#009E73", band: "#CC79A7", point: "#000000" };
 const SAMPLES = 2000;
 
 interface ViewState {
@@ -129,7 +127,7 @@ function markersPlugin(getMarkers: () => ReturnType<typeof chartMarkers> | null)
           const ctx = u.ctx;
           ctx.save();
           ctx.setLineDash([3 * devicePixelRatio, 5 * devicePixelRatio]);
-          ctx.strokeStyle = COLOURS.grey;
+          ctx.strokeStyle = CHART_COLOURS.grey;
           ctx.lineWidth = devicePixelRatio;
           for (const p of m.periastra) {
             const x = u.valToPos(p, "x", true);
@@ -142,7 +140,7 @@ function markersPlugin(getMarkers: () => ReturnType<typeof chartMarkers> | null)
             const x = u.valToPos(m.maximum.x, "x", true);
             const y = u.valToPos(m.maximum.valueK, "y", true);
             ctx.setLineDash([]);
-            ctx.fillStyle = COLOURS.marker;
+            ctx.fillStyle = CHART_COLOURS.marker;
             ctx.beginPath();
             ctx.arc(x, y, 5 * devicePixelRatio, 0, 2 * Math.PI);
             ctx.fill();
@@ -327,7 +325,6 @@ function startSweep(file: string, table: SweepTable): void {
       const groups = other ? levels(table.columns[other]!).slice(0, 12) : [NaN];
       const data: number[][] = [xs];
       const series: uPlot.Series[] = [{ label: xSel.value }];
-      const palette = ["#0072B2", "#D55E00", "#009E73", "#E69F00", "#56B4E9", "#CC79A7", "#000000", "#F0E442"];
       groups.forEach((g, gi) => {
         const ys = xs.map((xv) => {
           for (let r = 0; r < table.rows; r++) {
@@ -336,7 +333,7 @@ function startSweep(file: string, table: SweepTable): void {
           return NaN;
         });
         data.push(ys);
-        series.push({ label: other ? `${other} = ${Number(g.toPrecision(4))}` : metric.value, stroke: palette[gi % palette.length]!, width: 2 });
+        series.push({ label: other ? `${other} = ${Number(g.toPrecision(4))}` : metric.value, stroke: SERIES_CYCLE[gi % SERIES_CYCLE.length]!, width: 2 });
       });
       $("chart-temperature").innerHTML = "";
       new uPlot(
@@ -373,7 +370,7 @@ function startColumn(doc: ColumnDoc): void {
       title: "Surface temperature and instantaneous equilibrium",
       scales: { x: { time: false } },
       axes: [{ label: "time since start (d)" }, { label: "temperature (K)" }],
-      series: [{ label: "time (d)" }, { label: "T surface (K)", stroke: COLOURS.t, width: 2.5 }, { label: "T_eq (K)", stroke: COLOURS.teq, width: 2, dash: [8, 5] }],
+      series: [{ label: "time (d)" }, { label: "T surface (K)", stroke: CHART_COLOURS.temperature, width: 2.5 }, { label: "T_eq (K)", stroke: CHART_COLOURS.equilibrium, width: 2, dash: [8, 5] }],
     },
     [days, s.temperatureK, s.equilibriumK] as uPlot.AlignedData,
     $("chart-orbit"),
@@ -466,12 +463,12 @@ async function start(): Promise<void> {
     const data: number[][] = [cols.x, cols.temperatureK, cols.equilibriumK];
     const series: uPlot.Series[] = [
       { label: cols.xLabel },
-      { label: sim.series.states.length > 1 ? "T day (K)" : "T (K)", stroke: COLOURS.t, width: 2.5 },
-      { label: sim.series.states.length > 1 ? "T_eq day (K)" : "T_eq (K)", stroke: COLOURS.teq, width: 2, dash: [8, 5] },
+      { label: sim.series.states.length > 1 ? "T day (K)" : "T (K)", stroke: CHART_COLOURS.temperature, width: 2.5 },
+      { label: sim.series.states.length > 1 ? "T_eq day (K)" : "T_eq (K)", stroke: CHART_COLOURS.equilibrium, width: 2, dash: [8, 5] },
     ];
     if (sim.series.states.length > 1) {
       data.push(Array.from(sim.series.states[1]!.temperatureK));
-      series.push({ label: "T night (K)", stroke: COLOURS.night, width: 2.5 });
+      series.push({ label: "T night (K)", stroke: CHART_COLOURS.night, width: 2.5 });
     }
     if (state.overlay) {
       for (const regime of ["global", "dayside", "substellar", "daynight", "band", "point"] as const) {
@@ -479,7 +476,7 @@ async function start(): Promise<void> {
         try {
           const other = simulate({ ...thermal, regime }, { samples: SAMPLES });
           data.push(Array.from(other.series.temperatureK));
-          series.push({ label: `T ${regime}${regime === "daynight" ? " day" : ""} (K)`, stroke: OVERLAY_COLOURS[regime]!, width: 1.5, dash: [2, 3] });
+          series.push({ label: `T ${regime}${regime === "daynight" ? " day" : ""} (K)`, stroke: REGIME_COLOURS[regime]!, width: 1.5, dash: [2, 3] });
         } catch {
           /* a regime that cannot run here is simply not overlaid */
         }
@@ -510,8 +507,8 @@ async function start(): Promise<void> {
           axes: [{ label: cols.xLabel }, { scale: "au", label: "distance (au)" }, { scale: "flux", side: 1, label: "absorbed flux (W m⁻²)", grid: { show: false } }],
           series: [
             { label: cols.xLabel },
-            { label: "distance (au)", stroke: COLOURS.grey, width: 2, scale: "au" },
-            { label: "absorbed (W m⁻²)", stroke: COLOURS.window, width: 2, scale: "flux" },
+            { label: "distance (au)", stroke: CHART_COLOURS.grey, width: 2, scale: "au" },
+            { label: "absorbed (W m⁻²)", stroke: CHART_COLOURS.window, width: 2, scale: "flux" },
           ],
         },
         orbitData as uPlot.AlignedData,

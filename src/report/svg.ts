@@ -1,11 +1,12 @@
 /**
  * A standalone SVG of the temperature and the instantaneous equilibrium against time, for papers
  * and reports: axes with units, a legend, periastron passages and the temperature window.
- * Colours from the Okabe–Ito colour-blind-safe palette (Okabe & Ito 2008).
+ * Colours from the Okabe–Ito colour-blind-safe palette (src/view/palette.ts).
  */
 import { chartColumns, chartMarkers, type SeriesLike, type SummaryLike } from "../view/chartData.js";
+import { CHART_COLOURS } from "../view/palette.js";
 
-export const PALETTE = { temperature: "#0072B2", equilibrium: "#D55E00", window: "#009E73", periastron: "#555555" } as const;
+const PALETTE = { ...CHART_COLOURS, periastron: CHART_COLOURS.grey } as const;
 
 function escapeXml(text: string): string {
   return text.replace(/&/g, "&amp;").replace(/</g, "&lt;").replace(/>/g, "&gt;").replace(/"/g, "&quot;");

@@ -98,12 +98,6 @@ export function solveColumnPeriodic(problem: ColumnProblem, relativeTolerance: n
     }
     out[n] = 0;
   };
-  // Net conductive gain of layer i from its neighbours (and the interior flux at the bottom), W m⁻².
-  const gain = (g: Float64Array, layers: Float64Array, surface: number, i: number): number => {
-    const above = i === 0 ? surface : layers[i - 1]!;
-    const below = i === n - 1 ? 0 : g[i + 1]! * (layers[i + 1]! - layers[i]!);
-    return g[i]! * (above - layers[i]!) + below + (i === n - 1 ? q : 0);
-  };
 
   // The anchor: the first layer three short-period skin depths down (where that wave is e⁻³ ≈ 5 %).
   let anchor = 0;
@@ -147,10 +141,12 @@ export function solveColumnPeriodic(problem: ColumnProblem, relativeTolerance: n
           const cOverDt = capacity[i]! / dt;
           const gAbove = conductance[i]!;
           const gBelow = i === n - 1 ? 0 : conductance[i + 1]!;
-          // Layer 0's old-half gain from above is the surface flux the last balance delivered
-          // (F − εσT_s⁴), not G_s(T_s − T₀) with this step's G_s: that keeps the energy exact.
-          const oldGain = i === 0 ? surfaceFlux + gain(conductance, Tn, tsOld, 0) - conductance[0]! * (tsOld - Tn[0]!) : gain(conductance, Tn, tsOld, i);
-          const right = cOverDt * Tn[i]! + 0.5 * oldGain + (i === n - 1 ? 0.5 * q : 0);
+          // Old-half gain of layer i. From above, layer 0 takes the flux the last surface balance
+          // delivered (F − εσT_s⁴) rather than G_s(T_s − T₀) with this step's G_s, which keeps the
+          // energy exact when k depends on T; from below, the bottom layer takes the interior flux.
+          const fromAbove = i === 0 ? surfaceFlux : gAbove * (Tn[i - 1]! - Tn[i]!);
+          const fromBelow = i === n - 1 ? q : gBelow * (Tn[i + 1]! - Tn[i]!);
+          const right = cOverDt * Tn[i]! + 0.5 * (fromAbove + fromBelow) + (i === n - 1 ? 0.5 * q : 0);
           const diagonal = cOverDt + 0.5 * (gAbove + gBelow);
           const below = i === n - 1 ? 0 : -0.5 * gBelow;
           const pivot = diagonal + (i === n - 1 ? 0 : below * slope[i + 1]!);

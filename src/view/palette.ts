@@ -1,0 +1,37 @@
+/**
+ * calorbit's chart colours: the Okabe–Ito colour-blind-safe palette (Okabe & Ito 2008), one
+ * definition for the SVG export and the browser viewer.
+ */
+export const OKABE_ITO = {
+  blue: "#0072B2",
+  vermillion: "#D55E00",
+  bluishGreen: "#009E73",
+  orange: "#E69F00",
+  skyBlue: "#56B4E9",
+  reddishPurple: "#CC79A7",
+  yellow: "#F0E442",
+  black: "#000000",
+} as const;
+
+/** What each colour means in calorbit's charts. */
+export const CHART_COLOURS = {
+  temperature: OKABE_ITO.blue,
+  equilibrium: OKABE_ITO.vermillion,
+  night: OKABE_ITO.skyBlue,
+  window: OKABE_ITO.bluishGreen,
+  marker: OKABE_ITO.reddishPurple,
+  grey: "#555555",
+} as const;
+
+/** One colour per regime when several are drawn together. */
+export const REGIME_COLOURS: Readonly<Record<string, string>> = {
+  global: OKABE_ITO.blue,
+  dayside: OKABE_ITO.orange,
+  substellar: OKABE_ITO.vermillion,
+  daynight: OKABE_ITO.bluishGreen,
+  band: OKABE_ITO.reddishPurple,
+  point: OKABE_ITO.black,
+};
+
+/** A cycle of distinct colours for families of curves. */
+export const SERIES_CYCLE = Object.values(OKABE_ITO);
