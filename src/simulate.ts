@@ -5,11 +5,10 @@
  */
 import { cycleSummary, type CycleSummary } from "./analysis/summarise.js";
 import { timeMean } from "./analysis/cycleStatistics.js";
+import { anomaliesUniformInTime, orbitColumns } from "./analysis/orbitSampling.js";
 import { CalorbitError, requireNumber } from "./errors.js";
 import type { ThermalCase } from "./model.js";
-import { stellarFlux } from "./physics/flux.js";
-import { eccentricAnomaly, trueAnomalyFromEccentric } from "./physics/kepler.js";
-import { distanceFromEccentric, meanMotion, timeAtEccentric } from "./physics/orbit.js";
+import { eccentricAnomaly } from "./physics/kepler.js";
 import { chooseIntegrator, integrateCycle, solvePeriodic, type IntegratorName } from "./solve/periodic.js";
 import { addWork, emptyWork, type SolverWork } from "./solve/system.js";
 import { buildThermalModel, type ThermalModel } from "./thermalModel.js";
@@ -271,13 +270,7 @@ function makeGrids(
   statsPointsPerOrbit: number,
   n: number,
 ): Grids {
-  const spanSeconds = spanOrbits * orbit.periodSeconds;
-  const startM = startE - orbit.eccentricity * Math.sin(startE);
-  const outputE = new Float64Array(sampleCount);
-  for (let j = 0; j < sampleCount; j++) {
-    const t = (spanSeconds * j) / (sampleCount - 1);
-    outputE[j] = j === sampleCount - 1 ? startE + TWO_PI * spanOrbits : eccentricAnomaly(startM + meanMotion(orbit) * t, orbit.eccentricity);
-  }
+  const outputE = anomaliesUniformInTime(orbit, startE, spanOrbits, sampleCount);
   const statsCount = statsPointsPerOrbit * summaryOrbits + 1;
   const statsStart = startE + TWO_PI * (spanOrbits - summaryOrbits);
   const statsE = new Float64Array(statsCount);
@@ -342,26 +335,15 @@ function buildSeries(thermal: ThermalCase, model: ThermalModel, outputE: Float64
     absorbedWPerM2: new Float64Array(count),
   }));
   const series: Series = {
-    timeSeconds: new Float64Array(count),
-    meanAnomalyRad: new Float64Array(count),
-    trueAnomalyRad: new Float64Array(count),
-    distanceM: new Float64Array(count),
-    stellarFluxWPerM2: new Float64Array(count),
+    ...orbitColumns(orbit, thermal.star.luminosityW, outputE),
     absorbedWPerM2: states[0]!.absorbedWPerM2,
     temperatureK: states[0]!.temperatureK,
     equilibriumK: states[0]!.equilibriumK,
     states,
   };
-  const t0 = count > 0 ? timeAtEccentric(orbit, outputE[0]!) : 0;
   const eq = new Float64Array(n);
   for (let j = 0; j < count; j++) {
     const E = outputE[j]!;
-    const r = distanceFromEccentric(orbit, E);
-    series.timeSeconds[j] = timeAtEccentric(orbit, E) - t0;
-    series.meanAnomalyRad[j] = E - orbit.eccentricity * Math.sin(E);
-    series.trueAnomalyRad[j] = trueAnomalyFromEccentric(E, orbit.eccentricity);
-    series.distanceM[j] = r;
-    series.stellarFluxWPerM2[j] = stellarFlux(thermal.star.luminosityW, r);
     model.equilibriumAt(E, eq);
     for (let i = 0; i < n; i++) {
       states[i]!.temperatureK[j] = outputY[j * n + i]!;

@@ -8,9 +8,9 @@ import type { ColumnSpec, ThermalCase } from "./model.js";
 import { buildColumnGrid, skinDepthM, specificHeatAt } from "./physics/column.js";
 import { STEFAN_BOLTZMANN } from "./constants.js";
 import { wienPeakWavelengthM } from "./physics/flux.js";
-import { eccentricAnomaly, trueAnomalyFromEccentric } from "./physics/kepler.js";
-import { distanceFromEccentric, firstPeriastronSeconds, meanMotion, timeAtEccentric } from "./physics/orbit.js";
-import { stellarFlux } from "./physics/flux.js";
+import { eccentricAnomaly } from "./physics/kepler.js";
+import { anomaliesUniformInTime, orbitColumns } from "./analysis/orbitSampling.js";
+import { firstPeriastronSeconds, timeAtEccentric } from "./physics/orbit.js";
 import { solveColumnPeriodic } from "./solve/columnSolver.js";
 import { buildThermalModel } from "./thermalModel.js";
 import type { TemperatureStats } from "./analysis/summarise.js";
@@ -177,29 +177,20 @@ export function simulateColumn(thermal: ThermalCase, column: ColumnSpec, options
   // Output series, uniform in time, interpolated linearly from the fine step grid.
   const count = options.samples ?? 1000;
   const n = grid.thicknessM.length;
+  const outputE = anomaliesUniformInTime(orbit, startE, model.cycleOrbits, count);
   const series: ColumnSimulation["series"] = {
-    timeSeconds: new Float64Array(count),
-    distanceM: new Float64Array(count),
-    trueAnomalyRad: new Float64Array(count),
-    meanAnomalyRad: new Float64Array(count),
-    stellarFluxWPerM2: new Float64Array(count),
+    ...orbitColumns(orbit, thermal.star.luminosityW, outputE),
     absorbedWPerM2: new Float64Array(count),
     temperatureK: new Float64Array(count),
     equilibriumK: new Float64Array(count),
     depths: column.outputDepthsM.map((depthM) => ({ depthM, temperatureK: new Float64Array(count) })),
   };
-  const startM = startE - orbit.eccentricity * Math.sin(startE);
   let k = 0;
   for (let j = 0; j < count; j++) {
-    const t = (cycleSeconds * j) / Math.max(1, count - 1);
-    const E = eccentricAnomaly(startM + meanMotion(orbit) * t, orbit.eccentricity);
+    const t = series.timeSeconds[j]!;
+    const E = outputE[j]!;
     while (k < steps - 2 && times[k + 1]! - times[0]! < t) k++;
     const w = Math.min(1, Math.max(0, (t - (times[k]! - times[0]!)) / (times[k + 1]! - times[k]!)));
-    series.timeSeconds[j] = t;
-    series.distanceM[j] = distanceFromEccentric(orbit, E);
-    series.trueAnomalyRad[j] = trueAnomalyFromEccentric(E, orbit.eccentricity);
-    series.meanAnomalyRad[j] = E - orbit.eccentricity * Math.sin(E);
-    series.stellarFluxWPerM2[j] = stellarFlux(thermal.star.luminosityW, series.distanceM[j]!);
     series.absorbedWPerM2[j] = model.absorbedAt(E, 0);
     series.temperatureK[j] = (1 - w) * result.surfaceK[k]! + w * result.surfaceK[k + 1]!;
     series.equilibriumK[j] = (1 - w) * teq[k]! + w * teq[k + 1]!;
