@@ -8,7 +8,7 @@ import { requireNumber } from "./errors.js";
 import type { ThermalCase } from "./model.js";
 import { DAYSIDE_FACTOR, DayNightBalance } from "./physics/dayNight.js";
 import { LumpedBalance, radiativeTimeSeconds } from "./physics/energyBalance.js";
-import { equilibriumTemperature, type LumpedRegime } from "./physics/flux.js";
+import type { LumpedRegime } from "./physics/flux.js";
 import { bandForcing, lumpedForcing, orbitMeanByQuadrature, pointForcing, type Forcing } from "./physics/forcing.js";
 import { solarDaySeconds } from "./physics/geometry.js";
 import { checkOrbit, meanMotion } from "./physics/orbit.js";
@@ -86,7 +86,7 @@ export function buildThermalModel(thermal: ThermalCase): ThermalModel {
   const emission = surface.emissivity * STEFAN_BOLTZMANN;
   const n = meanMotion(orbit);
   const e = orbit.eccentricity;
-  equilibriumTemperature(q + 1, surface.emissivity); // validates ε once; the fast forms below are unchecked
+  // ε is validated by the balances' constructors (checkSurface) before teqOf is first used.
   const teqOf = (absorbed: number): number => Math.sqrt(Math.sqrt((absorbed + q) / emission));
 
   if (thermal.regime === "daynight") {

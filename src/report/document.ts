@@ -2,6 +2,7 @@
  * The machine-readable result: one JSON document that says how it was made (calorbit version,
  * the resolved scenario in SI units) and what came out (summary, solver work, optional series).
  */
+import { CalorbitError } from "../errors.js";
 import type { ThermalCase } from "../model.js";
 import type { ResolvedScenario } from "../scenario/resolve.js";
 import type { Simulation } from "../simulate.js";
@@ -28,7 +29,7 @@ export function resolvedScenarioRecord(resolved: ResolvedScenario) {
     body: {
       albedo: thermal.surface.albedo,
       emissivity: thermal.surface.emissivity,
-      heatCapacityJPerM2K: thermal.surface.heatCapacityJPerM2K,
+      heatCapacityJPerM2K: resolved.heatCapacityOrigin.kind === "column" ? null : thermal.surface.heatCapacityJPerM2K,
       heatCapacityOrigin: resolved.heatCapacityOrigin,
       internalFluxWPerM2: thermal.surface.internalFluxWPerM2,
     },
@@ -87,6 +88,10 @@ export function resultDocument(resolved: ResolvedScenario, sim: Simulation, with
 
 /** The inverse of resolvedScenarioRecord: a ThermalCase from a result file's SI scenario (the viewer uses it). */
 export function thermalCaseFromRecord(record: ReturnType<typeof resolvedScenarioRecord>): ThermalCase {
+  const heatCapacity = record.body.heatCapacityJPerM2K;
+  if (heatCapacity === null) {
+    throw new CalorbitError("INVALID_ARGUMENT", "a conduction-column result has no lumped heat capacity to re-simulate", []);
+  }
   const thermal: ThermalCase = {
     name: record.name,
     star: {
@@ -104,7 +109,7 @@ export function thermalCaseFromRecord(record: ReturnType<typeof resolvedScenario
     surface: {
       albedo: record.body.albedo,
       emissivity: record.body.emissivity,
-      heatCapacityJPerM2K: record.body.heatCapacityJPerM2K,
+      heatCapacityJPerM2K: heatCapacity,
       internalFluxWPerM2: record.body.internalFluxWPerM2,
     },
     regime: record.regime,

@@ -15,6 +15,7 @@ import { parseRatio, scenarioSchema, type ParsedScenario } from "./schema.js";
 /** How the heat capacity was obtained, kept for the report. */
 export type HeatCapacityOrigin =
   | { kind: "direct" }
+  | { kind: "column" }
   | { kind: "layer"; material: MaterialName; thicknessM: number; densityKgPerM3: number; specificHeatJPerKgK: number; source: string };
 
 export interface ResolvedScenario {
@@ -117,7 +118,10 @@ function fromParsed(s: ParsedScenario, raw: unknown): ResolvedScenario {
   if (column !== undefined && (s.body.heatCapacity !== undefined || s.body.layer !== undefined)) {
     problem("body.column", "either a column or body.heatCapacity / body.layer, not both");
   } else if (column !== undefined) {
-    heatCapacity = 1; // unused: the column stores the heat
+    // The column stores the heat; the lumped slot only has to be a valid placeholder (the
+    // forcing and cycle still come from the lumped model), and reports show the column instead.
+    heatCapacity = 1;
+    heatCapacityOrigin = { kind: "column" };
     if (column.profile === undefined && column.conductivity === undefined && column.thermalInertia === undefined) {
       problem("body.column", "a thermalInertia, a conductivity, or a depth profile");
     }
