@@ -9,7 +9,7 @@ import { anomaliesUniformInTime, orbitColumns } from "./analysis/orbitSampling.j
 import { CalorbitError, requireNumber } from "./errors.js";
 import type { ThermalCase } from "./model.js";
 import { eccentricAnomaly } from "./physics/kepler.js";
-import { chooseIntegrator, integrateCycle, solvePeriodic, type IntegratorName } from "./solve/periodic.js";
+import { chooseIntegrator, integrateCycle, INTEGRATORS, solvePeriodic, type IntegratorName } from "./solve/periodic.js";
 import { addWork, emptyWork, type SolverWork } from "./solve/system.js";
 import { buildThermalModel, type ThermalModel } from "./thermalModel.js";
 
@@ -22,6 +22,11 @@ const MAX_SEASONAL_ORBITS = 2000;
 export interface SimulateOptions {
   /** Relative tolerance of the temperatures (default 1e-8). */
   relativeTolerance?: number;
+  /**
+   * Integrator: by default Dormand–Prince 5(4), or Radau IIA when the radiative time is a small
+   * fraction of the cycle; "odex" (extrapolation, an independent code) for a cross-check.
+   */
+  integrator?: IntegratorName;
   /** Points in the output series (uniform in time, both ends included); default 1000, more for a fast-spinning point. */
   samples?: number;
   /** Transient mode: start at this temperature (K, every state) and integrate `orbits` orbits; no shooting. */
@@ -76,6 +81,11 @@ export interface Simulation {
 export function simulate(thermal: ThermalCase, options: SimulateOptions = {}): Simulation {
   const rtol = options.relativeTolerance ?? DEFAULT_RELATIVE_TOLERANCE;
   requireNumber("tolerance", rtol, (t) => t >= 1e-13 && t <= 1e-2, "1e-13 ≤ tolerance ≤ 1e-2");
+  if (options.integrator !== undefined && !INTEGRATORS.includes(options.integrator)) {
+    throw new CalorbitError("INVALID_ARGUMENT", "unknown integrator", [
+      { path: "integrator", given: String(options.integrator), allowed: INTEGRATORS.join(", ") },
+    ]);
+  }
   if (thermal.column) {
     throw new CalorbitError("INVALID_ARGUMENT", "this case has a conduction column", [
       { path: "body.column", given: "a conduction column", allowed: "calorbit run (the column solver); compare, sweep and the viewer take lumped surfaces" },
@@ -109,15 +119,23 @@ export function simulate(thermal: ThermalCase, options: SimulateOptions = {}): S
     y0 = guessStart(model, thermal);
     const grids = makeGrids(orbit, startE, spanOrbits, summaryOrbits, sampleCount, model.statsPointsPerOrbit, n);
     const result = solvePeriodic(
-      { system: model.system, start: startE, cycleLength: TWO_PI * model.cycleOrbits, guess: y0, scale, stiffness: model.stiffness },
-      { relativeTolerance: rtol, samples: grids.dense },
+      {
+        system: model.system,
+        start: startE,
+        cycleLength: TWO_PI * model.cycleOrbits,
+        guess: y0,
+        scale,
+        stiffness: model.stiffness,
+        memoryEstimate: -Math.expm1((-model.cycleOrbits * orbit.periodSeconds) / model.radiativeTimeSeconds),
+      },
+      { relativeTolerance: rtol, samples: grids.dense, ...(options.integrator ? { integrator: options.integrator } : {}) },
     );
     addWork(work, result.work);
     solver = report("periodic", result.integrator, rtol, result.odeRelativeTolerance, result.iterations, result.cyclesIntegrated * model.cycleOrbits, result.periodicityResidual, work);
     return finish(thermal, model, grids, solver);
   }
 
-  const integrator = chooseIntegrator(model.stiffness / model.cycleOrbits);
+  const integrator = options.integrator ?? chooseIntegrator(model.stiffness / model.cycleOrbits);
   const odeTol = rtol * 0.1;
   const y = mode === "transient" ? new Float64Array(n).fill(options.transient!.startK) : guessStart(model, thermal);
   let orbitsIntegrated = 0;

@@ -18,7 +18,7 @@ describe("radiative cooling with no input", () => {
   const orbit: Orbit = { semiMajorAxisM: 1e11, eccentricity: 0, periodSeconds: period, meanAnomalyAtStartRad: 0 };
   const balance = new LumpedBalance(orbit, { albedo: 0, emissivity: 1, heatCapacityJPerM2K: 1e5, internalFluxWPerM2: 0 }, noSunlight);
   const exact = (t: number) => 300 * (1 + (3 * STEFAN_BOLTZMANN * 300 ** 3 * t) / 1e5) ** (-1 / 3);
-  for (const integrator of ["odex", "radau"] as const) {
+  for (const integrator of ["dormand-prince", "odex", "radau"] as const) {
     it(`matches the closed form to 1e-8 relative with ${integrator}`, () => {
       const toAnomaly = (t: number) => (2 * Math.PI * t) / period; // circular: E = M = n t
       const xs = Float64Array.of(toAnomaly(3600), toAnomaly(DAY_S), toAnomaly(10 * DAY_S));
@@ -98,23 +98,37 @@ describe("periodic steady state", () => {
     expect(later.summary.temperature.maxK).toBeCloseTo(atPeriastron.summary.temperature.maxK, 6);
   });
 
-  it("agrees between the explicit (odex) and implicit (Radau IIA) integrators to 1e-9 over an eccentric orbit", () => {
-    // Both integrate the same balance from the same start through one orbit, sampled densely.
+  it("agrees between Dormand–Prince, the odex package (an independent extrapolation code) and Radau IIA to 1e-9 over an eccentric orbit", () => {
+    // All three integrate the same balance from the same start through one orbit, sampled densely.
     const thermal = nominalCase({ e: 0.6, heatCapacity: 3e5 });
     const forcing = lumpedForcing("global", 0, SOLAR_LUMINOSITY_W, thermal.orbit);
     const balance = new LumpedBalance(thermal.orbit, thermal.surface, forcing);
     const xs = Float64Array.from({ length: 101 }, (_, k) => (2 * Math.PI * k) / 100);
-    const results = (["odex", "radau"] as const).map((integrator) => {
+    const results = (["odex", "dormand-prince", "radau"] as const).map((integrator) => {
       const ys = new Float64Array(xs.length);
       integrateCycle(balance, integrator, 0, 2 * Math.PI, Float64Array.of(250), 1e-11, Float64Array.of(300), { xs, ys, components: 1 });
       return ys;
     });
-    for (let k = 0; k < xs.length; k++) expect(Math.abs(results[0]![k]! / results[1]![k]! - 1)).toBeLessThan(1e-9);
+    for (const other of [results[1]!, results[2]!]) {
+      for (let k = 0; k < xs.length; k++) expect(Math.abs(other[k]! / results[0]![k]! - 1)).toBeLessThan(1e-9);
+    }
+  });
+
+  it("finds the same periodic state with the odex package as with the default integrator, to 1e-8", () => {
+    const thermal = nominalCase({ e: 0.5, heatCapacity: 5e7 });
+    const ours = simulate(thermal, { samples: 0 });
+    const reference = simulate(thermal, { samples: 0, integrator: "odex" });
+    expect(ours.solver.integrator).toBe("dormand-prince");
+    expect(reference.solver.integrator).toBe("odex");
+    for (const key of ["minK", "maxK", "meanK"] as const) {
+      expect(Math.abs(ours.summary.temperature[key] / reference.summary.temperature[key] - 1)).toBeLessThan(1e-8);
+    }
+    expect(Math.abs(ours.summary.lagSeconds! / reference.summary.lagSeconds! - 1)).toBeLessThan(1e-6);
   });
 
   it("switches to the implicit integrator when the radiative time is a small fraction of the orbit", () => {
     expect(simulate(nominalCase({ e: 0.3, heatCapacity: 1e4 }), { samples: 0 }).solver.integrator).toBe("radau");
-    expect(simulate(nominalCase({ e: 0.3, heatCapacity: 1e8 }), { samples: 0 }).solver.integrator).toBe("odex");
+    expect(simulate(nominalCase({ e: 0.3, heatCapacity: 1e8 }), { samples: 0 }).solver.integrator).toBe("dormand-prince");
   });
 
   it("relaxes a cold start toward the periodic state in transient mode", () => {

@@ -143,6 +143,16 @@ export function timeInWindow(
   for (let k = 0; k + 1 < xs.length; k++) {
     const xa = xs[k]!;
     const xb = xs[k + 1]!;
+    // The cubic stays within (4/27) h (|y′ₐ| + |y′ᵦ|) of its end values' range (|h₁₀|, |h₁₁| ≤ 4/27
+    // on [0, 1]): an interval whose whole range is inside or outside the window has no crossing.
+    const slack = (4 / 27) * (xb - xa) * (Math.abs(ds[k]!) + Math.abs(ds[k + 1]!));
+    const lowest = Math.min(ys[k]!, ys[k + 1]!) - slack;
+    const highest = Math.max(ys[k]!, ys[k + 1]!) + slack;
+    if (lowest >= low && highest <= high) {
+      total += timeAt(xb) - timeAt(xa);
+      continue;
+    }
+    if (highest < low || lowest > high) continue;
     const f = (x: number): number => hermite(xa, xb, ys[k]!, ys[k + 1]!, ds[k]!, ds[k + 1]!, x);
     // Split the interval at every threshold crossing of the interpolant; four probes per interval
     // catch a cubic that leaves and re-enters the window between samples.

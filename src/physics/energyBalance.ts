@@ -73,4 +73,12 @@ export class LumpedBalance implements OdeSystem {
     const t = y[0]!;
     out[0] = -this.timePerAnomaly(x) * 4 * this.emissionCoefficient * t * t * t * this.inverseHeatCapacity;
   }
+
+  derivativeAndJacobian(x: number, y: ArrayLike<number>, out: Float64Array, jacobianOut: Float64Array): void {
+    const t = y[0]!;
+    const t3 = t * t * t;
+    const perHeatCapacity = this.timePerAnomaly(x) * this.inverseHeatCapacity;
+    out[0] = perHeatCapacity * (this.forcing.absorbedAt(x) + this.internalFlux - this.emissionCoefficient * t3 * t);
+    jacobianOut[0] = -perHeatCapacity * 4 * this.emissionCoefficient * t3;
+  }
 }

@@ -10,6 +10,7 @@
  * has 0 < Φ' < 1) and bisect when a Newton step would leave it, so they cannot diverge.
  */
 import { CalorbitError } from "../errors.js";
+import { integrateDormandPrince } from "./dormandPrince.js";
 import { integrateOdex } from "./odexIntegrator.js";
 import { integrateRadau } from "./radau.js";
 import { addWork, emptyWork, type DenseSamples, type Integrator, type OdeSystem, type SolverWork } from "./system.js";
@@ -30,8 +31,14 @@ const CONVERGENCE_SHARE = 0.1;
 /** Below this the ODE tolerance is not tightened further (double precision). */
 const FINEST_ODE_TOLERANCE = 1e-14;
 const MAX_ITERATIONS = 40;
+/** Early passes need not be finer than this: they only bring y₀ near the fixed point. */
+const COARSEST_ODE_TOLERANCE = 1e-6;
+/** Relative error assumed for the linear-response first guess when choosing the first pass's tolerance. */
+const FIRST_GUESS_ERROR = 1e-3;
 
-export type IntegratorName = "odex" | "radau";
+/** "dormand-prince": explicit 5(4) pair; "radau": implicit Radau IIA; "odex": extrapolation (the odex package), on request only. */
+export const INTEGRATORS = ["dormand-prince", "odex", "radau"] as const;
+export type IntegratorName = (typeof INTEGRATORS)[number];
 
 export interface PeriodicProblem {
   system: OdeSystem;
@@ -45,10 +52,14 @@ export interface PeriodicProblem {
   scale: Float64Array;
   /** Estimated max |∂f/∂y| × cycleLength: the number of relaxation times in one cycle. */
   stiffness: number;
+  /** Expected 1 − ∂Φ/∂y₀ (how much of a start error one cycle forgets), e.g. 1 − exp(−cycle/τ); sets the first pass's tolerance. Default 1. */
+  memoryEstimate?: number;
 }
 
 export interface PeriodicOptions {
   relativeTolerance: number;
+  /** Overrides the choice by stiffness (a cross-check; the default choice is the fast one). */
+  integrator?: IntegratorName;
   /** Dense output of the state on the converged cycle. */
   samples?: DenseSamples;
 }
@@ -83,8 +94,16 @@ class WithSensitivity implements OdeSystem {
   }
   derivative(x: number, y: ArrayLike<number>, out: Float64Array): void {
     const n = this.base.dimension;
-    this.base.derivative(x, y, out);
-    this.base.jacobian(x, y, this.jac);
+    if (this.base.derivativeAndJacobian) {
+      this.base.derivativeAndJacobian(x, y, out, this.jac);
+    } else {
+      this.base.derivative(x, y, out);
+      this.base.jacobian(x, y, this.jac);
+    }
+    if (n === 1) {
+      out[1] = this.jac[0]! * y[1]!;
+      return;
+    }
     for (let r = 0; r < n; r++) {
       for (let c = 0; c < n; c++) {
         let s = 0;
@@ -110,11 +129,11 @@ class WithSensitivity implements OdeSystem {
 }
 
 export function chooseIntegrator(stiffness: number): IntegratorName {
-  return stiffness > STIFFNESS_THRESHOLD ? "radau" : "odex";
+  return stiffness > STIFFNESS_THRESHOLD ? "radau" : "dormand-prince";
 }
 
 function integratorFor(name: IntegratorName): Integrator {
-  return name === "radau" ? integrateRadau : integrateOdex;
+  return name === "radau" ? integrateRadau : name === "odex" ? integrateOdex : integrateDormandPrince;
 }
 
 /** Solves n×n M x = b (Gaussian elimination with partial pivoting; n is 1 or 2 in practice). */
@@ -164,47 +183,25 @@ export function integrateCycle(
   });
 }
 
+
 /**
- * Moves a sampled trajectory from start y₀ to y₀ + Δ: y(x) += S(x) Δ, with the sensitivity S
- * carried along the samples by the trapezoidal (Crank–Nicolson) rule on S' = J S. Only the
- * tiny last Newton correction goes through S, so S needs few digits; the rule is A-stable, so
- * stiff systems are safe.
+ * The tolerance of a pass that only has to bring y₀ close enough for the next Newton step:
+ * integration error δ moves the computed fixed point by about δ/(1 − Φ'), so it is held to a
+ * hundredth of the error expected after the step, times the memory factor 1 − Φ'.
  */
-function applyCorrection(system: OdeSystem, samples: DenseSamples, correction: Float64Array): void {
-  const n = system.dimension;
-  const { xs, ys, components } = samples;
-  const sens = new Float64Array(n * n);
-  for (let i = 0; i < n; i++) sens[i * n + i] = 1;
-  const jPrev = new Float64Array(n * n);
-  const jNext = new Float64Array(n * n);
-  const left = new Float64Array(n * n);
-  const right = new Float64Array(n * n);
-  system.jacobian(xs[0]!, ys.subarray(0, n), jPrev);
-  for (let k = 0; k < xs.length; k++) {
-    if (k > 0) {
-      const h = xs[k]! - xs[k - 1]!;
-      system.jacobian(xs[k]!, ys.subarray(k * components, k * components + n), jNext);
-      // (I − h/2 J_k) S_k = (I + h/2 J_{k−1}) S_{k−1}
-      for (let r = 0; r < n; r++) {
-        for (let c = 0; c < n; c++) {
-          let acc = sens[r * n + c]!;
-          for (let q = 0; q < n; q++) acc += 0.5 * h * jPrev[r * n + q]! * sens[q * n + c]!;
-          right[r * n + c] = acc;
-          left[r * n + c] = (r === c ? 1 : 0) - 0.5 * h * jNext[r * n + c]!;
-        }
-      }
-      for (let c = 0; c < n; c++) {
-        const column = new Float64Array(n);
-        for (let r = 0; r < n; r++) column[r] = right[r * n + c]!;
-        const solved = solveSmall(n, left, column);
-        for (let r = 0; r < n; r++) sens[r * n + c] = solved[r]!;
-      }
-      jPrev.set(jNext);
-    }
+function coarsePassTolerance(expectedError: number, memory: number, finalTolerance: number): number {
+  return Math.max(finalTolerance, Math.min(COARSEST_ODE_TOLERANCE, 0.01 * expectedError * memory));
+}
+
+/** The sampled trajectory moved from start y₀ to y₀ + Δ: y(x) + S(x) Δ, with S sampled beside y. */
+function correctedSamples(internal: DenseSamples, target: DenseSamples, n: number, correction: Float64Array | null): void {
+  const m = internal.components;
+  const count = target.xs.length;
+  for (let k = 0; k < count; k++) {
     for (let i = 0; i < n; i++) {
-      let shift = 0;
-      for (let c = 0; c < n; c++) shift += sens[i * n + c]! * correction[c]!;
-      ys[k * components + i]! += shift;
+      let value = internal.ys[k * m + i]!;
+      if (correction) for (let c = 0; c < n; c++) value += internal.ys[k * m + n + i * n + c]! * correction[c]!;
+      target.ys[k * target.components + i] = value;
     }
   }
 }
@@ -214,11 +211,19 @@ export function solvePeriodic(problem: PeriodicProblem, options: PeriodicOptions
   const n = base.dimension;
   const augmented = new WithSensitivity(base);
   const m = augmented.dimension;
-  const integrator = chooseIntegrator(problem.stiffness);
+  const integrator = options.integrator ?? chooseIntegrator(problem.stiffness);
   const rtol = options.relativeTolerance;
   const scale = new Float64Array(m);
   for (let i = 0; i < m; i++) scale[i] = i < n ? problem.scale[i]! : 1;
   const userSamples = options.samples;
+  // Samples of the whole augmented state, so the last Newton correction can move them exactly.
+  const samples: DenseSamples | undefined = userSamples
+    ? { xs: userSamples.xs, ys: new Float64Array(userSamples.xs.length * m), components: m }
+    : undefined;
+  const samplesStartAtCycle = userSamples !== undefined && userSamples.xs[0] === problem.start;
+  // Dense output of the explicit pair is a polynomial per sample; Radau's caps its steps, so it
+  // samples only once a pass is likely to be the last.
+  const cheapSampling = integrator !== "radau";
 
   const y0 = Float64Array.from(problem.guess);
   const y = new Float64Array(m);
@@ -226,17 +231,20 @@ export function solvePeriodic(problem: PeriodicProblem, options: PeriodicOptions
   const jacobianOfG = new Float64Array(n * n);
   const work = emptyWork();
   const monodromy = new Float64Array(n).fill(1);
-  let odeTol = Math.max(FINEST_ODE_TOLERANCE, ODE_TOLERANCE_SHARE * rtol);
+  const finalToleranceFor = (memory: number): number => Math.max(FINEST_ODE_TOLERANCE, ODE_TOLERANCE_SHARE * rtol * memory);
+  // 1 − Φ', the smallest over the states: estimated, then measured on every pass.
+  let memory = Math.min(1, Math.max(problem.memoryEstimate ?? 1, 1e-6));
+  let passTolerance = coarsePassTolerance(FIRST_GUESS_ERROR, memory, finalToleranceFor(memory));
+  let previousPassTolerance = NaN;
   let bracketLow = -Infinity; // n = 1: largest y₀ known with g > 0
   let bracketHigh = Infinity; // n = 1: smallest y₀ known with g < 0
   let cycles = 0;
   let lastResidual = Infinity;
   let previousStepSize = Infinity;
-  let sampledBefore = false;
   let previousSampledResidual = Infinity;
 
   const finish = (iteration: number, residual: number, correction: Float64Array | null): PeriodicResult => {
-    if (userSamples && correction) applyCorrection(base, userSamples, correction);
+    if (userSamples && samples) correctedSamples(samples, userSamples, n, correction);
     if (correction) for (let i = 0; i < n; i++) y0[i] = y0[i]! + correction[i]!;
     return {
       start: y0,
@@ -245,7 +253,7 @@ export function solvePeriodic(problem: PeriodicProblem, options: PeriodicOptions
       periodicityResidual: residual,
       monodromyDiagonal: monodromy,
       integrator,
-      odeRelativeTolerance: odeTol,
+      odeRelativeTolerance: passTolerance,
       work,
     };
   };
@@ -256,18 +264,18 @@ export function solvePeriodic(problem: PeriodicProblem, options: PeriodicOptions
       y[i] = y0[i]!;
       y[n + i * n + i] = 1;
     }
-    // Sample on a pass that is likely to be the last: after a small Newton step.
-    const sampleThisPass = userSamples !== undefined && previousStepSize <= Math.sqrt(rtol);
-    if (sampleThisPass && !sampledBefore) {
-      // Dense output changes the integrator's step sequence, and so g by a hair: the bracket
-      // found without it may no longer hold the root of the sampled map.
+    const finalPass = passTolerance <= finalToleranceFor(memory) * 1.000001;
+    const sampleThisPass = samples !== undefined && finalPass && (cheapSampling || previousStepSize <= Math.sqrt(rtol));
+    if (passTolerance !== previousPassTolerance || sampleThisPass) {
+      // Another tolerance, or dense output, changes the step sequence and so g by a hair: a
+      // bracket found before may no longer hold the root of this pass's map.
       bracketLow = -Infinity;
       bracketHigh = Infinity;
-      sampledBefore = true;
     }
+    previousPassTolerance = passTolerance;
     const from = problem.start;
     const to = problem.start + problem.cycleLength;
-    addWork(work, integrateCycle(augmented, integrator, from, to, y, odeTol, scale, sampleThisPass ? userSamples : undefined));
+    addWork(work, integrateCycle(augmented, integrator, from, to, y, passTolerance, scale, sampleThisPass ? samples : undefined));
     cycles++;
     let residual = 0;
     let minContraction = 1;
@@ -279,16 +287,17 @@ export function solvePeriodic(problem: PeriodicProblem, options: PeriodicOptions
       residual = Math.max(residual, Math.abs(g[i]!) / problem.scale[i]!);
     }
     lastResidual = residual;
+    memory = Math.min(1, Math.max(minContraction, 1e-300));
     // The start state's error is g/(1 − Φ'): |g| ≤ share·rtol·scale·(1 − Φ') makes y₀ meet rtol.
-    const memory = Math.min(1, Math.max(minContraction, 1e-300));
     const target = CONVERGENCE_SHARE * rtol * memory;
+    const finalTolerance = finalToleranceFor(memory);
+    // A slow-memory body needs a tighter ODE tolerance to resolve g at all: only a pass at the
+    // tolerance its measured memory asks for can be the last.
+    const toleranceFineEnough = passTolerance <= 2 * finalTolerance || residual === 0;
     // Stagnation: two sampled passes that fail to halve a residual already within 10× the target
     // mean g has reached the integrator's noise floor; take the start and report what was reached.
     const stagnated = sampleThisPass && residual > previousSampledResidual * 0.5 && residual <= 10 * target;
     if (sampleThisPass) previousSampledResidual = residual;
-    // A slow-memory body needs a tighter ODE tolerance to resolve g at all; tighten once known.
-    const neededOdeTol = Math.max(FINEST_ODE_TOLERANCE, ODE_TOLERANCE_SHARE * rtol * memory);
-    const toleranceFineEnough = neededOdeTol >= odeTol * 0.5 || residual === 0;
     if ((residual <= target || stagnated) && toleranceFineEnough && (sampleThisPass || !userSamples)) {
       return finish(iteration, residual, null);
     }
@@ -297,16 +306,16 @@ export function solvePeriodic(problem: PeriodicProblem, options: PeriodicOptions
     let stepSize = 0;
     for (let i = 0; i < n; i++) stepSize = Math.max(stepSize, Math.abs(step[i]!) / problem.scale[i]!);
     // Near the fixed point the map is linear to O(Δ²): when that remainder is far below the
-    // target, the Newton-corrected start and trajectory are accepted without another cycle. The
-    // trajectory's correction S·Δ uses an approximate S (a few digits), so Δ itself must be small
-    // enough that even a 1 % error in S stays a tenth of the target.
-    const samplesStartAtCycle = userSamples !== undefined && userSamples.xs[0] === problem.start;
-    const correctionIsSafe = stepSize * stepSize <= 0.1 * target && stepSize <= 10 * target;
-    if (toleranceFineEnough && sampleThisPass && samplesStartAtCycle && correctionIsSafe) {
+    // target, the Newton-corrected start and trajectory (y + S Δ, S sampled with y) are accepted
+    // without another cycle.
+    if (toleranceFineEnough && sampleThisPass && samplesStartAtCycle && stepSize * stepSize <= 0.1 * target) {
       for (let i = 0; i < n; i++) step[i] = -step[i]!;
       return finish(iteration, stepSize * stepSize, step);
     }
-    odeTol = Math.min(odeTol, neededOdeTol);
+    if (!userSamples && toleranceFineEnough && stepSize * stepSize <= 0.1 * target) {
+      for (let i = 0; i < n; i++) step[i] = -step[i]!;
+      return finish(iteration, stepSize * stepSize, step);
+    }
 
     stepSize = 0;
     for (let i = 0; i < n; i++) {
@@ -329,6 +338,12 @@ export function solvePeriodic(problem: PeriodicProblem, options: PeriodicOptions
       y0[i] = next;
     }
     previousStepSize = stepSize;
+    // Newton converges quadratically: after a step Δ the start is off by about Δ² (plus this
+    // pass's integration error over 1 − Φ'). If the next step is expected to be small enough to
+    // accept, integrate it at the final tolerance; otherwise only as finely as it needs.
+    const expectedError = stepSize * stepSize + passTolerance / memory;
+    passTolerance =
+      expectedError * expectedError <= 0.1 * target ? finalTolerance : coarsePassTolerance(expectedError, memory, finalTolerance);
   }
   throw new CalorbitError(
     "PERIODIC_NO_CONVERGENCE",

@@ -9,6 +9,8 @@ export interface OdeSystem {
   derivative(x: number, y: ArrayLike<number>, out: Float64Array): void;
   /** Writes ∂f/∂y at (x, y) into `out`, row-major n×n. */
   jacobian(x: number, y: ArrayLike<number>, out: Float64Array): void;
+  /** Optional: both at once, for systems where they share costly terms (the shooting loop calls this on every step). */
+  derivativeAndJacobian?(x: number, y: ArrayLike<number>, out: Float64Array, jacobianOut: Float64Array): void;
 }
 
 /** Work done by an integrator, summed over calls. */
