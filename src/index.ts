@@ -16,7 +16,8 @@ export { solvePeriodic, integrateCycle, type PeriodicProblem, type PeriodicResul
 export type { OdeSystem, SolverWork } from "./solve/system.js";
 export { simulate, DEFAULT_RELATIVE_TOLERANCE, DEFAULT_SAMPLES, type Simulation, type Series, type SimulateOptions, type SolverReport } from "./simulate.js";
 export type { CycleSummary, TemperatureStats } from "./analysis/summarise.js";
-export { resolveScenario, parseScenarioText, type ResolvedScenario } from "./scenario/resolve.js";
+export { resolveScenario, type ResolvedScenario } from "./scenario/resolve.js";
+export { parseScenarioText } from "./scenario/text.js";
 export { scenarioJsonSchema, scenarioSchema } from "./scenario/schema.js";
 export { parseQuantity, UNIT_TABLES, type QuantityKind } from "./scenario/units.js";
 export { resultDocument } from "./report/document.js";

@@ -13,6 +13,8 @@ import { chooseIntegrator, integrateCycle, INTEGRATORS, solvePeriodic, type Inte
 import { addWork, emptyWork, type SolverWork } from "./solve/system.js";
 import { buildThermalModel, type ThermalModel } from "./thermalModel.js";
 
+export { INTEGRATORS, type IntegratorName };
+
 const TWO_PI = 2 * Math.PI;
 export const DEFAULT_RELATIVE_TOLERANCE = 1e-8;
 export const DEFAULT_SAMPLES = 1000;

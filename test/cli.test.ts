@@ -96,6 +96,16 @@ describe("calorbit run", () => {
     expect(doc.solver.mode).toBe("transient");
     expect(doc.solver.orbitsIntegrated).toBe(3);
   });
+
+  it("cross-checks a case with the odex package's extrapolation integrator (--integrator odex) to 1e-8", () => {
+    const path = scenarioFile("ok5.yaml", validScenario);
+    const ours = JSON.parse(calorbit("run", path, "--json", "--samples", "20").stdout);
+    const odex = JSON.parse(calorbit("run", path, "--json", "--samples", "20", "--integrator", "odex").stdout);
+    expect(odex.solver.integrator).toBe("odex");
+    expect(ours.solver.integrator).not.toBe("odex");
+    expect(Math.abs(odex.summary.temperature.meanK / ours.summary.temperature.meanK - 1)).toBeLessThan(1e-8);
+    expect(Math.abs(odex.summary.temperature.maxK / ours.summary.temperature.maxK - 1)).toBeLessThan(1e-8);
+  });
 });
 
 describe("calorbit check, schema, equilibrium", () => {
@@ -172,6 +182,7 @@ describe("bad input: one line per problem, exit status 2, no stack trace", () =>
       "calorbit: --samples: given "many"; allowed: an integer from 2 to 10000000
       "
     `);
+    expect(calorbit("run", "--integrator", "euler").stderr).toBe('calorbit: --integrator: given "euler"; allowed: dormand-prince, odex, radau\n');
     const r = calorbit("run", "--frobnicate");
     expect(r.status).toBe(2);
     expect(r.stderr).toContain("unknown option '--frobnicate'");

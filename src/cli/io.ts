@@ -3,7 +3,8 @@ import { existsSync, readFileSync, renameSync, rmSync, writeFileSync } from "nod
 import { basename, dirname, extname, join } from "node:path";
 import { fileURLToPath } from "node:url";
 import { CalorbitError } from "../errors.js";
-import { parseScenarioText, resolveScenario, type ResolvedScenario } from "../scenario/resolve.js";
+import { resolveScenario, type ResolvedScenario } from "../scenario/resolve.js";
+import { parseScenarioText } from "../scenario/text.js";
 
 /** The bundled demo scenario, used when no file is given. */
 export const DEMO_SCENARIO = fileURLToPath(new URL("../../../scenarios/calyndra-ocean.yaml", import.meta.url));

@@ -18,7 +18,7 @@ import { describeScenario, summaryText } from "../report/text.js";
 import { duration, sig } from "../report/format.js";
 import { scenarioJsonSchema } from "../scenario/schema.js";
 import { parseQuantity, type QuantityKind } from "../scenario/units.js";
-import { DEFAULT_RELATIVE_TOLERANCE, DEFAULT_SAMPLES, simulate, type SimulateOptions } from "../simulate.js";
+import { DEFAULT_RELATIVE_TOLERANCE, DEFAULT_SAMPLES, INTEGRATORS, simulate, type IntegratorName, type SimulateOptions } from "../simulate.js";
 import { VERSION } from "../version.js";
 import { readFileSync } from "node:fs";
 import { loadScenario, loadScenarioDocument, writeFileAtomic } from "./io.js";
@@ -57,7 +57,14 @@ function toleranceFlag(raw: string): number {
   return v;
 }
 
+function integratorFlag(raw: string | undefined): IntegratorName | undefined {
+  if (raw === undefined) return undefined;
+  if (!(INTEGRATORS as readonly string[]).includes(raw)) throw usage("--integrator", JSON.stringify(raw), INTEGRATORS.join(", "));
+  return raw as IntegratorName;
+}
+
 interface RunFlags {
+  integrator?: string;
   json?: boolean;
   series?: boolean;
   csv?: string;
@@ -73,6 +80,8 @@ function runCommand(scenarioPath: string | undefined, flags: RunFlags): void {
     relativeTolerance: toleranceFlag(flags.tolerance),
     samples: integerFlag("--samples", flags.samples, 2, 10_000_000),
   };
+  const integrator = integratorFlag(flags.integrator);
+  if (integrator) options.integrator = integrator;
   if (flags.from !== undefined || flags.orbits !== undefined) {
     if (flags.from === undefined) throw usage("--from", "missing", "a start temperature with --orbits, e.g. --from 150K");
     options.transient = {
@@ -348,6 +357,7 @@ export function buildProgram(): Command {
     .option("--from <temperature>", "transient mode: start at this temperature (e.g. 150K, -20degC)")
     .option("--orbits <n>", "transient mode: number of orbits to integrate (default 1)")
     .option("--tolerance <x>", "relative tolerance of the temperatures", String(DEFAULT_RELATIVE_TOLERANCE))
+    .option("--integrator <name>", `force an integrator, e.g. odex to cross-check a result (${INTEGRATORS.join(", ")}; default: chosen by stiffness)`)
     .addHelpText(
       "after",
       `
@@ -355,7 +365,8 @@ Examples:
   calorbit run                                   the bundled demo
   calorbit run scenarios/orvalle-rock.yaml --json
   calorbit run my.yaml --csv history.csv --samples 2000
-  calorbit run my.yaml --from 150K --orbits 5    spin-up from a cold start`,
+  calorbit run my.yaml --from 150K --orbits 5    spin-up from a cold start
+  calorbit run my.yaml --integrator odex         the same case with an independent integrator`,
     )
     .action((scenario: string | undefined, flags: RunFlags) => runCommand(scenario, flags));
 

@@ -2,7 +2,6 @@
  * From a scenario document (parsed YAML/JSON) to a validated ThermalCase in SI units, with a
  * FieldProblem for every bad field. Pure: the CLI reads the file, this module only judges it.
  */
-import { parse as parseYaml, YAMLParseError } from "yaml";
 import type { z } from "zod";
 import { CalorbitError, type FieldProblem } from "../errors.js";
 import type { ThermalCase } from "../model.js";
@@ -64,17 +63,6 @@ export function problemsFromZod(error: z.ZodError, raw: unknown): FieldProblem[]
     problems.push({ path: pathText(issue.path), given: render(given), allowed: issue.message });
   }
   return problems;
-}
-
-/** Parses scenario text; `format` follows the file extension ("json" or "yaml"). */
-export function parseScenarioText(text: string, format: "json" | "yaml", sourceName: string): unknown {
-  try {
-    return format === "json" ? JSON.parse(text) : parseYaml(text, { prettyErrors: true });
-  } catch (err) {
-    const where = err instanceof YAMLParseError && err.linePos ? ` at line ${err.linePos[0].line}, column ${err.linePos[0].col}` : "";
-    const reason = err instanceof Error ? (err.message.split("\n")[0] ?? "").replace(/ at line \d+, column \d+:?$/, "") : String(err);
-    throw new CalorbitError("SCENARIO_UNREADABLE", `${sourceName}: not valid ${format.toUpperCase()}${where}: ${reason}`);
-  }
 }
 
 /** Validates a parsed document and resolves it to SI; throws SCENARIO_INVALID listing every problem. */
