@@ -9,7 +9,7 @@ import { anomaliesUniformInTime, orbitColumns } from "./analysis/orbitSampling.j
 import { CalorbitError, requireNumber } from "./errors.js";
 import type { ThermalCase } from "./model.js";
 import { eccentricAnomaly } from "./physics/kepler.js";
-import { chooseIntegrator, integrateCycle, INTEGRATORS, solvePeriodic, type IntegratorName } from "./solve/periodic.js";
+import { chooseIntegrator, integrateCycle, INTEGRATORS, plainOdeTolerance, solvePeriodic, type IntegratorName } from "./solve/periodic.js";
 import { addWork, emptyWork, type SolverWork } from "./solve/system.js";
 import { buildThermalModel, type ThermalModel } from "./thermalModel.js";
 
@@ -18,6 +18,9 @@ export { INTEGRATORS, type IntegratorName };
 const TWO_PI = 2 * Math.PI;
 export const DEFAULT_RELATIVE_TOLERANCE = 1e-8;
 export const DEFAULT_SAMPLES = 1000;
+/** Step caps of one orbit's integration: a runaway guard, raised for a point that sees many sunrises. */
+const MIN_STEP_CAP = 200_000;
+const STEPS_PER_SOLAR_DAY = 500;
 /** A non-commensurate spin: the most orbits integrated to forget the start. */
 const MAX_SEASONAL_ORBITS = 2000;
 
@@ -111,6 +114,9 @@ export function simulate(thermal: ThermalCase, options: SimulateOptions = {}): S
   requireNumber("samples", sampleCount, (k) => Number.isInteger(k) && (k === 0 || (k >= 2 && k <= 10_000_000)), "0, or an integer from 2 to 10,000,000");
 
   const scale = new Float64Array(n).fill(model.meanFluxEquilibriumK);
+  // A fast-spinning point sees thousands of sunrises per orbit, each needing its own steps.
+  const solarDaysPerOrbit = model.solarDaySeconds ? orbit.periodSeconds / model.solarDaySeconds : 0;
+  const maxStepsPerOrbit = Math.max(MIN_STEP_CAP, STEPS_PER_SOLAR_DAY * solarDaysPerOrbit);
   const work: SolverWork = emptyWork();
   let solver: SolverReport;
   let runStartE = startE; // where the sampled span starts (seasonal mode: the last orbit)
@@ -128,6 +134,8 @@ export function simulate(thermal: ThermalCase, options: SimulateOptions = {}): S
         guess: y0,
         scale,
         stiffness: model.stiffness,
+        maxStepsPerCycle: maxStepsPerOrbit * model.cycleOrbits,
+        forcingHasCorners: model.forcingHasCorners,
         memoryEstimate: -Math.expm1((-model.cycleOrbits * orbit.periodSeconds) / model.radiativeTimeSeconds),
       },
       { relativeTolerance: rtol, samples: grids.dense, ...(options.integrator ? { integrator: options.integrator } : {}) },
@@ -138,7 +146,7 @@ export function simulate(thermal: ThermalCase, options: SimulateOptions = {}): S
   }
 
   const integrator = options.integrator ?? chooseIntegrator(model.stiffness / model.cycleOrbits);
-  const odeTol = rtol * 0.1;
+  const odeTol = plainOdeTolerance(rtol, model.forcingHasCorners);
   const y = mode === "transient" ? new Float64Array(n).fill(options.transient!.startK) : guessStart(model, thermal);
   let orbitsIntegrated = 0;
   let change: number | null = null;
@@ -154,7 +162,7 @@ export function simulate(thermal: ThermalCase, options: SimulateOptions = {}): S
       const from = startE + TWO_PI * orbitsIntegrated;
       const shifted = Float64Array.from(probe.statsE, (E) => E + TWO_PI * orbitsIntegrated);
       const ys = new Float64Array(shifted.length * n);
-      addWork(work, integrateCycle(model.system, integrator, from, from + TWO_PI, y, odeTol, scale, { xs: shifted, ys, components: n }));
+      addWork(work, integrateCycle(model.system, integrator, from, from + TWO_PI, y, odeTol, scale, { xs: shifted, ys, components: n }, maxStepsPerOrbit));
       orbitsIntegrated++;
       const t0 = Float64Array.from({ length: shifted.length }, (_, k) => ys[k * n]!);
       const dtdE = Float64Array.from(shifted, (E) => model.timePerAnomaly(E));
@@ -166,7 +174,10 @@ export function simulate(thermal: ThermalCase, options: SimulateOptions = {}): S
     sampledOrbits = 1;
   }
   const grids = makeGrids(orbit, runStartE, sampledOrbits, summaryOrbits, sampleCount, model.statsPointsPerOrbit, n);
-  addWork(work, integrateCycle(model.system, integrator, runStartE, runStartE + TWO_PI * sampledOrbits, y, odeTol, scale, grids.dense));
+  addWork(
+    work,
+    integrateCycle(model.system, integrator, runStartE, runStartE + TWO_PI * sampledOrbits, y, odeTol, scale, grids.dense, maxStepsPerOrbit * sampledOrbits),
+  );
   orbitsIntegrated += sampledOrbits;
   solver = report(mode, integrator, rtol, odeTol, 0, orbitsIntegrated, change, work);
   return finish(thermal, model, grids, solver);

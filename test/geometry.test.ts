@@ -169,6 +169,22 @@ describe("surface points on a spinning body", () => {
     expect(Math.abs(sim.summary.energyBalanceResidual)).toBeLessThan(1e-8);
   });
 
+  it("holds a fast-spinning point (500 solar days per orbit) to 1e-8 against the odex package's extrapolation integrator", () => {
+    // Every sunrise and sunset is a corner in the forcing; the tolerance must still hold over them all.
+    const fast: ThermalCase = {
+      ...nominalCase({ e: 0.1, heatCapacity: 1e6, albedo: 0.1, emissivity: 0.95 }),
+      regime: "point",
+      location: { latitudeRad: 20 * deg, longitudeRad: 0 },
+      spin: { rateRadPerSecond: (501 * 2 * Math.PI) / YEAR, ratio: { spin: 501, orbit: 1 }, obliquityRad: 10 * deg, equinoxTrueAnomalyRad: 0 },
+    };
+    const ours = simulate(fast, { samples: 0 });
+    const reference = simulate(fast, { samples: 0, integrator: "odex" });
+    expect(ours.solver.integrator).toBe("dormand-prince");
+    for (const key of ["minK", "maxK", "meanK"] as const) {
+      expect(Math.abs(ours.summary.temperature[key] / reference.summary.temperature[key] - 1)).toBeLessThan(1e-8);
+    }
+  });
+
   it("librates the substellar longitude of a locked orbit by about 2e (equation of the centre; Murray & Dermott 1999, §2.5, from memory)", () => {
     for (const e of [0.01, 0.05]) {
       const n = (2 * Math.PI) / YEAR;

@@ -13,6 +13,12 @@ import { caseCount, shardIds, shardSize, type Shard } from "../sweep/design.js";
 import { headerLines, lineCaseId, type SweepDefinition, type SweepFormat } from "../sweep/runCase.js";
 
 const CHUNK = 32;
+/**
+ * A case needs well under 1 MiB of live heap (a worker holds about 9 MiB after a collection), but
+ * V8 lets an old generation grow with the run's length before it collects; a cap keeps a long
+ * sweep's peak memory the same as a short one's.
+ */
+const WORKER_HEAP_LIMITS = { maxOldGenerationSizeMb: 48, maxYoungGenerationSizeMb: 12 };
 const READ_BLOCK = 1 << 20;
 
 export interface SweepRun {
@@ -175,6 +181,7 @@ export async function runSweep(run: SweepRun): Promise<{ written: number; skippe
         if (bar) bar.update(output.done + written, { rate: (written / ((performance.now() - startedAt) / 1000)).toFixed(0) });
       }
     };
+    const inFlight = new Map<Worker, number>();
     const feed = (worker: Worker): void => {
       // Keep at most a few chunks ahead of the writer, so memory does not grow with the sweep.
       if (nextChunk - nextToWrite > 4 * workerCount) {
@@ -183,11 +190,15 @@ export async function runSweep(run: SweepRun): Promise<{ written: number; skippe
       }
       const chunkIds = takeChunk();
       if (!chunkIds) {
-        active--;
-        void worker.terminate();
-        if (active === 0) resolve();
+        if (inFlight.get(worker) === 0) {
+          inFlight.delete(worker);
+          active--;
+          void worker.terminate();
+          if (active === 0) resolve();
+        }
         return;
       }
+      inFlight.set(worker, (inFlight.get(worker) ?? 0) + 1);
       worker.postMessage({ chunk: nextChunk++, ids: chunkIds });
     };
     if (remaining === 0) {
@@ -195,15 +206,19 @@ export async function runSweep(run: SweepRun): Promise<{ written: number; skippe
       return;
     }
     for (let w = 0; w < workerCount; w++) {
-      const worker = new Worker(new URL("./sweepWorker.js", import.meta.url), { workerData: { definition: run.definition } });
+      const worker = new Worker(new URL("./sweepWorker.js", import.meta.url), { workerData: { definition: run.definition }, resourceLimits: WORKER_HEAP_LIMITS });
       workers.push(worker);
       active++;
       worker.on("message", (m: { chunk: number; text: string; count: number }) => {
         finished.set(m.chunk, { text: m.text, count: m.count });
+        inFlight.set(worker, inFlight.get(worker)! - 1);
         flush();
         feed(worker);
       });
       worker.on("error", reject);
+      // Two chunks in flight per worker: the next one is already queued when a worker finishes, so
+      // it never idles while the main thread waits for a core to hand it more work.
+      feed(worker);
       feed(worker);
     }
   });

@@ -30,6 +30,12 @@ export const STIFFNESS_THRESHOLD = 800;
  * rtol 1e-8 (0.001 was no more accurate and cost 40 % more evaluations; 0.1 gave 2.4e-9).
  */
 const ODE_TOLERANCE_SHARE = 0.01;
+/**
+ * Sunrise and sunset put corners in a point's forcing, where an embedded error estimate underrates
+ * the error of a step across them. Measured on a point with 2001 solar days per orbit: share 0.01
+ * left the mean temperature 2e-7 off at rtol 1e-8, 1e-3 left 1e-8, 1e-4 left 2e-9.
+ */
+const CORNER_ODE_TOLERANCE_SHARE = 1e-4;
 const CONVERGENCE_SHARE = 0.1;
 /** Below this the ODE tolerance is not tightened further (double precision). */
 const FINEST_ODE_TOLERANCE = 1e-14;
@@ -55,6 +61,10 @@ export interface PeriodicProblem {
   scale: Float64Array;
   /** Estimated max |∂f/∂y| × cycleLength: the number of relaxation times in one cycle. */
   stiffness: number;
+  /** The forcing has corners (a point's sunrise and sunset): integrate more finely. */
+  forcingHasCorners?: boolean;
+  /** Step cap of one cycle's integration (default: the integrator's own, 200,000). */
+  maxStepsPerCycle?: number;
   /** Expected 1 − ∂Φ/∂y₀ (how much of a start error one cycle forgets), e.g. 1 − exp(−cycle/τ); sets the first pass's tolerance. Default 1. */
   memoryEstimate?: number;
 }
@@ -131,6 +141,11 @@ class WithSensitivity implements OdeSystem {
   }
 }
 
+/** The ODE tolerance of a plain (non-shooting) integration meant to meet `rtol` in the temperatures. */
+export function plainOdeTolerance(rtol: number, forcingHasCorners: boolean): number {
+  return Math.max(FINEST_ODE_TOLERANCE, rtol * (forcingHasCorners ? CORNER_ODE_TOLERANCE_SHARE : 0.1));
+}
+
 export function chooseIntegrator(stiffness: number): IntegratorName {
   return stiffness > STIFFNESS_THRESHOLD ? "radau" : "dormand-prince";
 }
@@ -175,6 +190,7 @@ export function integrateCycle(
   relativeTolerance: number,
   scale: Float64Array,
   samples?: DenseSamples,
+  maxSteps?: number,
 ): SolverWork {
   const n = system.dimension;
   const atol = new Float64Array(n);
@@ -183,6 +199,7 @@ export function integrateCycle(
     relativeTolerance,
     absoluteTolerance: atol,
     ...(samples ? { samples } : {}),
+    ...(maxSteps !== undefined ? { maxSteps } : {}),
   });
 }
 
@@ -234,7 +251,8 @@ export function solvePeriodic(problem: PeriodicProblem, options: PeriodicOptions
   const jacobianOfG = new Float64Array(n * n);
   const work = emptyWork();
   const monodromy = new Float64Array(n).fill(1);
-  const finalToleranceFor = (memory: number): number => Math.max(FINEST_ODE_TOLERANCE, ODE_TOLERANCE_SHARE * rtol * memory);
+  const share = problem.forcingHasCorners ? CORNER_ODE_TOLERANCE_SHARE : ODE_TOLERANCE_SHARE;
+  const finalToleranceFor = (memory: number): number => Math.max(FINEST_ODE_TOLERANCE, share * rtol * memory);
   // 1 − Φ', the smallest over the states: estimated, then measured on every pass.
   let memory = Math.min(1, Math.max(problem.memoryEstimate ?? 1, 1e-6));
   let passTolerance = coarsePassTolerance(FIRST_GUESS_ERROR, memory, finalToleranceFor(memory));
@@ -278,7 +296,10 @@ export function solvePeriodic(problem: PeriodicProblem, options: PeriodicOptions
     previousPassTolerance = passTolerance;
     const from = problem.start;
     const to = problem.start + problem.cycleLength;
-    addWork(work, integrateCycle(augmented, integrator, from, to, y, passTolerance, scale, sampleThisPass ? samples : undefined));
+    addWork(
+      work,
+      integrateCycle(augmented, integrator, from, to, y, passTolerance, scale, sampleThisPass ? samples : undefined, problem.maxStepsPerCycle),
+    );
     cycles++;
     let residual = 0;
     let minContraction = 1;
