@@ -10,6 +10,7 @@ export type ErrorCode =
   | "PERIODIC_NO_CONVERGENCE" // the shooting iteration did not find T(0) = T(P)
   | "SCENARIO_INVALID" // a scenario failed validation; `problems` holds one entry per field
   | "SCENARIO_UNREADABLE" // a scenario file is missing or cannot be parsed
+  | "SWEEP_WORKER_FAILED" // a sweep worker thread died (not a case failing: those become rows)
   | "USAGE"; // a command-line flag is malformed
 
 /** One problem with one input field: where it is, what was given, what is allowed. */

@@ -170,7 +170,7 @@ export async function runSweep(run: SweepRun): Promise<{ written: number; skippe
     return chunk.length > 0 ? chunk : null;
   };
 
-  await new Promise<void>((resolve, reject) => {
+  const finishedRun = new Promise<void>((resolve, reject) => {
     let active = 0;
     const flush = (): void => {
       for (let entry = finished.get(nextToWrite); entry; entry = finished.get(nextToWrite)) {
@@ -215,15 +215,28 @@ export async function runSweep(run: SweepRun): Promise<{ written: number; skippe
         flush();
         feed(worker);
       });
-      worker.on("error", reject);
+      worker.on("error", (err: Error) => {
+        // Stop the others too; every row written so far stays, and rerunning resumes after it.
+        for (const w of workers) void w.terminate();
+        reject(
+          new CalorbitError(
+            "SWEEP_WORKER_FAILED",
+            `a sweep worker stopped (${err.message.split("\n")[0]}); ${written} cases are in the output, rerun the same command to resume`,
+          ),
+        );
+      });
       // Two chunks in flight per worker: the next one is already queued when a worker finishes, so
       // it never idles while the main thread waits for a core to hand it more work.
       feed(worker);
       feed(worker);
     }
   });
-  bar?.stop();
-  if (run.out) closeSync(output.fd);
+  try {
+    await finishedRun;
+  } finally {
+    bar?.stop();
+    if (run.out) closeSync(output.fd);
+  }
   return { written, skipped: output.done };
 }
 
