@@ -96,11 +96,15 @@ describe("calorbit sweep", () => {
     expect(rowsOf(out).every((l) => l.split(",")[3] === "ok")).toBe(true);
   });
 
-  it("gives identical rows with one worker and with two", () => {
+  it("gives identical rows with one worker and with two, in case-id order", () => {
+    // 300 cases: ten chunks, so both workers take several and finish out of order.
+    const many = ["--vary", "orbit.eccentricity=0:0.9:15", "--vary", "body.heatCapacity=1e5..1e9:20 log", "--quiet"];
     const one = join(dir, "w1.csv");
     const two = join(dir, "w2.csv");
-    sweep(scenario, ...grid, "--workers", "1", "--out", one);
-    sweep(scenario, ...grid, "--workers", "2", "--out", two);
+    sweep(scenario, ...many, "--workers", "1", "--out", one);
+    sweep(scenario, ...many, "--workers", "2", "--out", two);
+    expect(rowsOf(one)).toHaveLength(300);
+    expect(idsOf(two)).toEqual(Array.from({ length: 300 }, (_, i) => i));
     expect(rowsOf(two)).toEqual(rowsOf(one));
   });
 
