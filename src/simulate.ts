@@ -145,7 +145,7 @@ export function simulate(thermal: ThermalCase, options: SimulateOptions = {}): S
     return finish(thermal, model, grids, solver);
   }
 
-  const integrator = options.integrator ?? chooseIntegrator(model.stiffness / model.cycleOrbits);
+  const integrator = options.integrator ?? chooseIntegrator(model.stiffness / model.cycleOrbits, model.forcingHasCorners);
   const odeTol = plainOdeTolerance(rtol, model.forcingHasCorners);
   const y = mode === "transient" ? new Float64Array(n).fill(options.transient!.startK) : guessStart(model, thermal);
   let orbitsIntegrated = 0;

@@ -185,6 +185,22 @@ describe("surface points on a spinning body", () => {
     }
   });
 
+  it("follows a thin skin through sunrise on a 3:2 resonance to 1e-8 of the odex package's result", () => {
+    // C = 2.8e4 J m⁻² K⁻¹ (2 cm of regolith): the night cools to ~30 K and sunrise is a sharp corner.
+    const skin: ThermalCase = {
+      ...nominalCase({ e: 0.21, heatCapacity: 2.8e4, albedo: 0.12, emissivity: 0.94, aAu: 0.36, periodSeconds: YEAR * 0.36 ** 1.5 }),
+      regime: "point",
+      location: { latitudeRad: 0, longitudeRad: 0 },
+      spin: { rateRadPerSecond: (1.5 * 2 * Math.PI) / (YEAR * 0.36 ** 1.5), ratio: { spin: 3, orbit: 2 }, obliquityRad: 0, equinoxTrueAnomalyRad: 0 },
+    };
+    const ours = simulate(skin, { samples: 0 });
+    const reference = simulate(skin, { samples: 0, integrator: "odex", relativeTolerance: 1e-11 });
+    expect(ours.summary.temperature.minK).toBeLessThan(60);
+    for (const key of ["minK", "maxK", "meanK"] as const) {
+      expect(Math.abs(ours.summary.temperature[key] / reference.summary.temperature[key] - 1)).toBeLessThan(1e-8);
+    }
+  });
+
   it("librates the substellar longitude of a locked orbit by about 2e (equation of the centre; Murray & Dermott 1999, §2.5, from memory)", () => {
     for (const e of [0.01, 0.05]) {
       const n = (2 * Math.PI) / YEAR;

@@ -31,6 +31,8 @@ const MAX_NEWTON = 10;
 const NEWTON_FRACTION = 0.01;
 /** While sampling, a step is at most this fraction of the interval (keeps the interpolant's error small). */
 const SAMPLING_STEP_FRACTION = 1 / 128; // a half step is then 1/256 of the interval
+/** How much better the half steps' interpolants are than the full step's (2⁴, the interpolant's order). */
+const DENSE_GAIN = 16;
 const DEFAULT_MAX_STEPS = 200_000;
 
 class Workspace {
@@ -51,6 +53,8 @@ class Workspace {
   /** Converged stage increments Z of the first and second half steps (dense output). */
   readonly zFirst: Float64Array;
   readonly zSecond: Float64Array;
+  /** Stage increments of the full step (the dense-output check while sampling). */
+  readonly zBig: Float64Array;
   evaluations = 0;
   constructor(readonly n: number) {
     const m = 3 * n;
@@ -69,6 +73,7 @@ class Workspace {
     this.fStage = new Float64Array(n);
     this.zFirst = new Float64Array(m);
     this.zSecond = new Float64Array(m);
+    this.zBig = new Float64Array(m);
   }
 }
 
@@ -214,7 +219,7 @@ export const integrateRadau: Integrator = (
     for (let i = 0; i < n; i++) scale[i] = atol[i]! + rtol * Math.abs(y[i]!);
     const half = 0.5 * h;
     const ok =
-      radauStep(system, w, x, y, h, scale, w.yBig, w.fEnd) &&
+      radauStep(system, w, x, y, h, scale, w.yBig, w.fEnd, samples ? w.zBig : undefined) &&
       radauStep(system, w, x, y, half, scale, w.yMid, w.fMid, w.zFirst) &&
       radauStep(system, w, x + half, w.yMid, half, scale, w.ySmall, w.fEnd, w.zSecond);
     if (!ok) {
@@ -236,6 +241,25 @@ export const integrateRadau: Integrator = (
       continue;
     }
     const xEnd = last ? x1 : x + h;
+    // While sampling, the interpolant must be as good as the step's end: the full step's
+    // collocation polynomial at its midpoint, against the two half steps' value there, estimates
+    // the O(h⁴) interpolation error of the full step; the half steps' own interpolants are about
+    // 2⁴ times better. A step across a corner of the forcing (a sunrise) is refused here even when
+    // its end value is fine.
+    if (samples) {
+      let denseSq = 0;
+      for (let i = 0; i < n; i++) {
+        const sc = atol[i]! + rtol * Math.max(Math.abs(y[i]!), Math.abs(w.yMid[i]!));
+        const e = (collocationAt(0.5, y[i]!, w.zBig, n, i) - w.yMid[i]!) / (DENSE_GAIN * sc);
+        denseSq += e * e;
+      }
+      const denseErr = Math.sqrt(denseSq / n);
+      if (!(denseErr <= 1)) {
+        h *= Math.max(MIN_SHRINK, Math.min(0.5, SAFETY * denseErr ** -0.25));
+        rejected++;
+        continue;
+      }
+    }
     if (samples) {
       // Where h|J| is small, f carries the state's error harmlessly and the O(h⁶) Hermite form is
       // best; where it is large (the stiff regime), only the values-based collocation form is safe.
@@ -262,6 +286,18 @@ export const integrateRadau: Integrator = (
 /** Lagrange basis weights of the collocation nodes 0, c₁, c₂, 1 (barycentric form). */
 const NODES = [0, C[0], C[1], 1] as const;
 const BARYCENTRIC = NODES.map((ni, i) => 1 / NODES.reduce((p, nj, j) => (j === i ? p : p * (ni - nj)), 1));
+
+/** Component i of a step's collocation polynomial (through y₀ at 0 and y₀ + Zⱼ at cⱼ) at u ∈ (0, 1), u not a node. */
+function collocationAt(u: number, y0: number, z: Float64Array, n: number, i: number): number {
+  let num = BARYCENTRIC[0]! / u * y0;
+  let den = BARYCENTRIC[0]! / u;
+  for (let j = 1; j < 4; j++) {
+    const wj = BARYCENTRIC[j]! / (u - NODES[j]!);
+    num += wj * (y0 + z[(j - 1) * n + i]!);
+    den += wj;
+  }
+  return num / den;
+}
 
 /** Samples at the very start of the interval take the initial state. */
 function emitStart(samples: DenseSamples, x0: number, y: ArrayLike<number>): number {
