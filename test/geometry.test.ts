@@ -183,6 +183,8 @@ describe("surface points on a spinning body", () => {
     for (const key of ["minK", "maxK", "meanK"] as const) {
       expect(Math.abs(ours.summary.temperature[key] / reference.summary.temperature[key] - 1)).toBeLessThan(1e-8);
     }
+    // Mean absorbed = mean emitted at the periodic state (energy conservation), through 500 sunrises.
+    expect(Math.abs(ours.summary.energyBalanceResidual)).toBeLessThan(1e-8);
   });
 
   it("follows a thin skin through sunrise on a 3:2 resonance to 1e-8 of the odex package's result", () => {
