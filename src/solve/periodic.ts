@@ -125,7 +125,7 @@ class WithSensitivity implements OdeSystem {
       }
     }
   }
-  /** Block-diagonal approximation (J on every block): ROS2 is a W-method, so order is kept. */
+  /** Block-diagonal approximation (J on every block, the ∂(JS)/∂y terms dropped): Radau uses it only in its simplified Newton iteration, so the solution it converges to is unchanged. */
   jacobian(x: number, y: ArrayLike<number>, out: Float64Array): void {
     const n = this.base.dimension;
     const m = this.dimension;
