@@ -93,7 +93,7 @@ export function simulate(thermal: ThermalCase, options: SimulateOptions = {}): S
   }
   if (thermal.column) {
     throw new CalorbitError("INVALID_ARGUMENT", "this case has a conduction column", [
-      { path: "body.column", given: "a conduction column", allowed: "calorbit run (the column solver); compare, sweep and the viewer take lumped surfaces" },
+      { path: "body.column", given: "a conduction column", allowed: "calorbit run or sweep (the column solver); compare and the viewer's live controls take lumped surfaces" },
     ]);
   }
   const model = buildThermalModel(thermal);

@@ -17,6 +17,16 @@ import type { TemperatureStats } from "./analysis/summarise.js";
 import { positiveModulo } from "./analysis/cycleStatistics.js";
 
 const TWO_PI = 2 * Math.PI;
+/** A column's default tolerance on its periodicity and energy closure (its steps are second order). */
+export const DEFAULT_COLUMN_TOLERANCE = 1e-6;
+
+/**
+ * The column tolerance for a command's tolerance setting: the column default when the lumped
+ * default (1e-8) was left alone, else what was asked, no finer than 1e-12.
+ */
+export function columnToleranceFor(requested: number, lumpedDefault: number): number {
+  return requested === lumpedDefault ? DEFAULT_COLUMN_TOLERANCE : Math.max(requested, 1e-12);
+}
 
 export interface DepthRow {
   depthM: number;
@@ -67,7 +77,7 @@ export interface ColumnSimulation {
 export type { ColumnSpec };
 
 export function simulateColumn(thermal: ThermalCase, column: ColumnSpec, options: { relativeTolerance?: number; samples?: number } = {}): ColumnSimulation {
-  const rtol = options.relativeTolerance ?? 1e-6;
+  const rtol = options.relativeTolerance ?? DEFAULT_COLUMN_TOLERANCE;
   requireNumber("tolerance", rtol, (t) => t >= 1e-12 && t <= 1e-2, "1e-12 ≤ tolerance ≤ 1e-2");
   if (thermal.regime === "daynight") {
     throw new CalorbitError("INVALID_ARGUMENT", "a conduction column goes with one surface", [

@@ -108,6 +108,29 @@ describe("calorbit sweep", () => {
     expect(rowsOf(two)).toEqual(rowsOf(one));
   });
 
+  it("sweeps a conduction column: each row is the column run of that case, with its skin depths and deep temperature", () => {
+    const column = join(import.meta.dirname, "..", "scenarios", "sarvek-regolith.yaml");
+    const out = join(dir, "column.csv");
+    const r = sweep(column, "--vary", "body.albedo=0.11,0.3", "--quiet", "--out", out);
+    expect(r.status).toBe(0);
+    const header = readFileSync(out, "utf8").split("\n").find((l) => l.startsWith("case_id"))!.split(",");
+    const rows = rowsOf(out).map((l) => Object.fromEntries(l.split(",").map((v, i) => [header[i]!, v])));
+    expect(rows.map((row) => row.status)).toEqual(["ok", "ok"]);
+    const run = spawnSync(process.execPath, [CLI, "run", column, "--json"], { encoding: "utf8" });
+    const doc = JSON.parse(run.stdout) as { summary: { temperature: { minK: number; meanK: number }; skinDepths: { diurnalM: number; orbitalM: number }; depthProfile: { meanK: number }[] } };
+    // The scenario's own albedo is 0.11: the first row must be that run, number for number.
+    expect(Number(rows[0]!.T_min_K)).toBe(doc.summary.temperature.minK);
+    expect(Number(rows[0]!.T_mean_K)).toBe(doc.summary.temperature.meanK);
+    expect(Number(rows[0]!.skin_depth_diurnal_m)).toBe(doc.summary.skinDepths.diurnalM);
+    expect(Number(rows[0]!.skin_depth_orbital_m)).toBe(doc.summary.skinDepths.orbitalM);
+    expect(Number(rows[0]!.T_deep_mean_K)).toBe(doc.summary.depthProfile.at(-1)!.meanK);
+    expect(rows[0]!.integrator).toBe("crank-nicolson");
+    expect(rows[0]!.tau_over_period).toBe("");
+    // A brighter surface absorbs less: colder at the surface and at depth.
+    expect(Number(rows[1]!.T_mean_K)).toBeLessThan(Number(rows[0]!.T_mean_K));
+    expect(Number(rows[1]!.T_deep_mean_K)).toBeLessThan(Number(rows[0]!.T_deep_mean_K));
+  });
+
   it("records a failing case with its reason and carries on", () => {
     const out = join(dir, "fail.csv");
     sweep(scenario, "--vary", "orbit.eccentricity=0.3,1.2,0.5", "--quiet", "--out", out);

@@ -10,7 +10,7 @@ import { buildThermalModel } from "../thermalModel.js";
 import { resultDocument } from "../report/document.js";
 import { seriesCsv } from "../report/csv.js";
 import { columnCsv, columnDocument, columnText } from "../report/columnReport.js";
-import { simulateColumn } from "../simulateColumn.js";
+import { columnToleranceFor, simulateColumn } from "../simulateColumn.js";
 import { specificHeatAt } from "../physics/column.js";
 import { parseSweepText } from "../view/sweepData.js";
 import { temperatureSvg } from "../report/svg.js";
@@ -94,7 +94,7 @@ function runCommand(scenarioPath: string | undefined, flags: RunFlags): void {
   if (resolved.thermal.column) {
     if (options.transient) throw usage("--from", JSON.stringify(flags.from ?? ""), "no transient mode for a conduction column yet (it runs to its periodic state)");
     // The column's periodicity and energy tolerance: 1e-6 unless --tolerance says otherwise.
-    const columnTolerance = flags.tolerance === String(DEFAULT_RELATIVE_TOLERANCE) ? 1e-6 : Math.max(options.relativeTolerance!, 1e-12);
+    const columnTolerance = columnToleranceFor(options.relativeTolerance!, DEFAULT_RELATIVE_TOLERANCE);
     const col = simulateColumn(resolved.thermal, resolved.thermal.column, { relativeTolerance: columnTolerance, samples: options.samples ?? 1000 });
     if (flags.csv !== undefined) writeFileAtomic(flags.csv, columnCsv(resolved, col));
     if (flags.json) process.stdout.write(JSON.stringify(columnDocument(resolved, col, flags.series === true), null, 2) + "\n");

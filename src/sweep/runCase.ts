@@ -5,7 +5,10 @@
  */
 import { CalorbitError, formatProblem } from "../errors.js";
 import { resolveScenario } from "../scenario/resolve.js";
-import { simulate } from "../simulate.js";
+import { DEFAULT_RELATIVE_TOLERANCE, simulate } from "../simulate.js";
+import { columnToleranceFor, simulateColumn } from "../simulateColumn.js";
+import type { ThermalCase } from "../model.js";
+import type { TemperatureStats } from "../analysis/summarise.js";
 import { VERSION } from "../version.js";
 import type { CaseValues, Design, Shard } from "./design.js";
 import { columnValue, setPath } from "./spec.js";
@@ -39,6 +42,9 @@ export const METRIC_COLUMNS = [
   "iterations",
   "orbits",
   "evaluations",
+  "skin_depth_diurnal_m",
+  "skin_depth_orbital_m",
+  "T_deep_mean_K",
 ] as const;
 
 type Metrics = Record<(typeof METRIC_COLUMNS)[number], number | string | null>;
@@ -82,6 +88,69 @@ function failureReason(err: unknown): string {
   return err instanceof Error ? err.message : String(err);
 }
 
+/** The summary fields a lumped surface and a column's surface share. */
+interface SurfaceSummary {
+  temperature: TemperatureStats;
+  equilibrium: TemperatureStats;
+  lagSeconds: number | null;
+  dampingRatio: number;
+  periodSeconds: number;
+  timeInRange?: { fraction: number };
+  energyBalanceResidual: number;
+}
+
+function surfaceMetrics(s: SurfaceSummary) {
+  return {
+    T_min_K: s.temperature.minK,
+    T_max_K: s.temperature.maxK,
+    T_mean_K: s.temperature.meanK,
+    T_swing_K: s.temperature.swingK,
+    Teq_min_K: s.equilibrium.minK,
+    Teq_max_K: s.equilibrium.maxK,
+    Teq_mean_K: s.equilibrium.meanK,
+    lag_s: s.lagSeconds,
+    damping_ratio: s.dampingRatio,
+    period_s: s.periodSeconds,
+    time_in_range_fraction: s.timeInRange ? s.timeInRange.fraction : null,
+    energy_residual: s.energyBalanceResidual,
+  };
+}
+
+function lumpedMetrics(thermal: ThermalCase, relativeTolerance: number): Metrics {
+  const sim = simulate(thermal, { relativeTolerance, samples: 0 });
+  return {
+    ...surfaceMetrics(sim.summary),
+    tau_over_period: sim.summary.tauOverPeriod,
+    integrator: sim.solver.integrator,
+    iterations: sim.solver.iterations,
+    orbits: sim.solver.orbitsIntegrated,
+    evaluations: sim.solver.evaluations,
+    skin_depth_diurnal_m: null,
+    skin_depth_orbital_m: null,
+    T_deep_mean_K: null,
+  };
+}
+
+/**
+ * A conduction column's row: its surface in the shared columns (no single τ, so tau_over_period is
+ * empty; "iterations" counts its cycles and "evaluations" its time steps), plus the skin depths and the deepest layer's mean.
+ */
+function columnMetrics(thermal: ThermalCase, relativeTolerance: number): Metrics {
+  const col = simulateColumn(thermal, thermal.column!, { relativeTolerance: columnToleranceFor(relativeTolerance, DEFAULT_RELATIVE_TOLERANCE), samples: 0 });
+  const s = col.summary;
+  return {
+    ...surfaceMetrics(s),
+    tau_over_period: null,
+    integrator: "crank-nicolson",
+    iterations: col.solver.cycles,
+    orbits: Math.round((col.solver.cycles * s.cycleSeconds) / s.periodSeconds),
+    evaluations: col.solver.stepsPerCycle * col.solver.cycles,
+    skin_depth_diurnal_m: s.skinDepths.diurnalM,
+    skin_depth_orbital_m: s.skinDepths.orbitalM,
+    T_deep_mean_K: s.depthProfile.at(-1)?.meanK ?? null,
+  };
+}
+
 /** Runs one case and returns its output line (without the newline). */
 export function runCase(def: SweepDefinition, c: CaseValues): string {
   const inputs = def.design.axes.map((a, d) => columnValue(a, c.values[d]!));
@@ -91,27 +160,7 @@ export function runCase(def: SweepDefinition, c: CaseValues): string {
     const doc = structuredClone(def.scenario);
     def.design.axes.forEach((a, d) => setPath(doc, a.path, c.values[d]!));
     const { thermal } = resolveScenario(doc);
-    const sim = simulate(thermal, { relativeTolerance: def.relativeTolerance, samples: 0 });
-    const s = sim.summary;
-    metrics = {
-      T_min_K: s.temperature.minK,
-      T_max_K: s.temperature.maxK,
-      T_mean_K: s.temperature.meanK,
-      T_swing_K: s.temperature.swingK,
-      Teq_min_K: s.equilibrium.minK,
-      Teq_max_K: s.equilibrium.maxK,
-      Teq_mean_K: s.equilibrium.meanK,
-      lag_s: s.lagSeconds,
-      damping_ratio: s.dampingRatio,
-      tau_over_period: s.tauOverPeriod,
-      period_s: s.periodSeconds,
-      time_in_range_fraction: s.timeInRange ? s.timeInRange.fraction : null,
-      energy_residual: s.energyBalanceResidual,
-      integrator: sim.solver.integrator,
-      iterations: sim.solver.iterations,
-      orbits: sim.solver.orbitsIntegrated,
-      evaluations: sim.solver.evaluations,
-    };
+    metrics = thermal.column ? columnMetrics(thermal, def.relativeTolerance) : lumpedMetrics(thermal, def.relativeTolerance);
   } catch (err) {
     status = `error: ${failureReason(err)}`.replace(/\s+/g, " ");
   }
