@@ -36,6 +36,8 @@ const ODE_TOLERANCE_SHARE = 0.01;
  * left the mean temperature 2e-7 off at rtol 1e-8, 1e-3 left 1e-8, 1e-4 left 2e-9.
  */
 const CORNER_ODE_TOLERANCE_SHARE = 1e-4;
+/** Share for a plain integration (transient, seasonal): no periodicity defect to leave room for. */
+const PLAIN_ODE_TOLERANCE_SHARE = 0.1;
 const CONVERGENCE_SHARE = 0.1;
 /** Below this the ODE tolerance is not tightened further (double precision). */
 const FINEST_ODE_TOLERANCE = 1e-14;
@@ -143,7 +145,7 @@ class WithSensitivity implements OdeSystem {
 
 /** The ODE tolerance of a plain (non-shooting) integration meant to meet `rtol` in the temperatures. */
 export function plainOdeTolerance(rtol: number, forcingHasCorners: boolean): number {
-  return Math.max(FINEST_ODE_TOLERANCE, rtol * (forcingHasCorners ? CORNER_ODE_TOLERANCE_SHARE : 0.1));
+  return Math.max(FINEST_ODE_TOLERANCE, rtol * (forcingHasCorners ? CORNER_ODE_TOLERANCE_SHARE : PLAIN_ODE_TOLERANCE_SHARE));
 }
 
 /**
@@ -211,7 +213,6 @@ export function integrateCycle(
   });
 }
 
-
 /**
  * The tolerance of a pass that only has to bring y₀ close enough for the next Newton step:
  * integration error δ moves the computed fixed point by about δ/(1 − Φ'), so it is held to a
@@ -248,7 +249,6 @@ export function solvePeriodic(problem: PeriodicProblem, options: PeriodicOptions
   const samples: DenseSamples | undefined = userSamples
     ? { xs: userSamples.xs, ys: new Float64Array(userSamples.xs.length * m), components: m }
     : undefined;
-  const samplesStartAtCycle = userSamples !== undefined && userSamples.xs[0] === problem.start;
   // Dense output of the explicit pair is a polynomial per sample; Radau's caps its steps, so it
   // samples only once a pass is likely to be the last.
   const cheapSampling = integrator !== "radau";
@@ -340,11 +340,7 @@ export function solvePeriodic(problem: PeriodicProblem, options: PeriodicOptions
     // Near the fixed point the map is linear to O(Δ²): when that remainder is far below the
     // target, the Newton-corrected start and trajectory (y + S Δ, S sampled with y) are accepted
     // without another cycle.
-    if (toleranceFineEnough && sampleThisPass && samplesStartAtCycle && stepSize * stepSize <= 0.1 * target) {
-      for (let i = 0; i < n; i++) step[i] = -step[i]!;
-      return finish(iteration, stepSize * stepSize, step);
-    }
-    if (!userSamples && toleranceFineEnough && stepSize * stepSize <= 0.1 * target) {
+    if (toleranceFineEnough && (sampleThisPass || !userSamples) && stepSize * stepSize <= 0.1 * target) {
       for (let i = 0; i < n; i++) step[i] = -step[i]!;
       return finish(iteration, stepSize * stepSize, step);
     }
