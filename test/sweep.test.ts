@@ -131,6 +131,13 @@ describe("calorbit sweep", () => {
     expect(Number(rows[1]!.T_deep_mean_K)).toBeLessThan(Number(rows[0]!.T_deep_mean_K));
   });
 
+  it("tells a user whose shell split off a log range's \"log\" to quote it", () => {
+    const r = sweep(scenario, "--vary", "body.heatCapacity=1e7..1e9:3", "log", "--quiet");
+    expect(r.status).toBe(2);
+    expect(r.stderr.trim().split("\n")).toHaveLength(1);
+    expect(r.stderr).toContain('quote a log range, e.g. --vary "body.heatCapacity=1e5..1e9:9 log"');
+  });
+
   it("records a failing case with its reason and carries on", () => {
     const out = join(dir, "fail.csv");
     sweep(scenario, "--vary", "orbit.eccentricity=0.3,1.2,0.5", "--quiet", "--out", out);

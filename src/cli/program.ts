@@ -250,7 +250,11 @@ async function sweepCommand(args: string[], flags: SweepFlags): Promise<void> {
     process.stdout.write(`merged ${args.length - 1} shard files: ${cases} cases, each once, into ${flags.out}\n`);
     return;
   }
-  if (args.length > 1) throw usage("sweep", JSON.stringify(args.join(" ")), "one scenario file (or 'merge' followed by shard files)");
+  if (args.length > 1) {
+    // The usual slip: a log range's " log" split off by the shell.
+    const hint = args.includes("log") ? `; quote a log range, e.g. --vary "body.heatCapacity=1e5..1e9:9 log"` : "";
+    throw usage("sweep", JSON.stringify(args.join(" ")), `one scenario file (or 'merge' followed by shard files)${hint}`);
+  }
   const axes = (flags.vary ?? []).map(parseAxis);
   if (axes.length === 0) throw usage("--vary", "missing", "at least one PATH=SPEC, e.g. --vary orbit.eccentricity=0:0.9:10");
   const format = flags.format;
@@ -356,7 +360,7 @@ export function buildProgram(): Command {
     .option("--samples <n>", "points in the series, uniform in time", String(DEFAULT_SAMPLES))
     .option("--from <temperature>", "transient mode: start at this temperature (e.g. 150K, -20degC)")
     .option("--orbits <n>", "transient mode: number of orbits to integrate (default 1)")
-    .option("--tolerance <x>", "relative tolerance of the temperatures", String(DEFAULT_RELATIVE_TOLERANCE))
+    .option("--tolerance <x>", "relative tolerance of the temperatures (a conduction column: 1e-6 unless given)", String(DEFAULT_RELATIVE_TOLERANCE))
     .option("--integrator <name>", `force an integrator, e.g. odex to cross-check a result (${INTEGRATORS.join(", ")}; default: chosen by stiffness)`)
     .addHelpText(
       "after",
@@ -413,15 +417,16 @@ Examples:
     .option("--workers <n>", "worker threads (default: the number of cores)")
     .option("--shard <i/N>", "run only the i-th of N disjoint slices (for a cluster job array)", "1/1")
     .option("--quiet", "no progress bar")
-    .option("--tolerance <x>", "relative tolerance of the temperatures", String(DEFAULT_RELATIVE_TOLERANCE))
+    .option("--tolerance <x>", "relative tolerance of the temperatures (a conduction column: 1e-6 unless given)", String(DEFAULT_RELATIVE_TOLERANCE))
     .addHelpText(
       "after",
       `
 Examples:
-  calorbit sweep my.yaml --vary orbit.eccentricity=0:0.9:10 --vary body.layer.thickness=1..1000:7\ log --out grid.csv
+  calorbit sweep my.yaml --vary orbit.eccentricity=0:0.9:10 --vary "body.layer.thickness=1..1000:7 log" --out grid.csv
   calorbit sweep my.yaml --vary orbit.semiMajorAxis="0.5 au..2 au:7" --vary body.albedo=0.1,0.3,0.5 --format jsonl --out a.jsonl
   calorbit sweep my.yaml --vary orbit.eccentricity=0..0.9:1 --vary body.albedo=0..0.8:1 --random 10000 --seed 7 --out lhs.csv
   calorbit sweep my.yaml --vary ... --shard 3/16 --out part-3.csv      (one task of a job array)
+  calorbit sweep scenarios/sarvek-regolith.yaml --vary body.albedo=0.05..0.3:6 --out column.csv   (a conduction column)
   calorbit sweep merge part-*.csv --out all.csv`,
     )
     .action((args: string[], flags: SweepFlags) => sweepCommand(args, flags));
