@@ -108,10 +108,10 @@ function sweepRun(cases: number, workers: number): { seconds: number; maxRssMiB:
   if (r.status !== 0) throw new Error(`sweep benchmark failed: ${r.stderr}`);
   return JSON.parse(r.stdout.trim().split("\n").at(-1)!);
 }
-// The VM's speed drifts by up to 2× between minutes: each 100,000-case configuration runs twice,
-// interleaved, and the faster run of each counts (both are printed).
+// The VM's speed drifts by up to 2× between minutes: each 100,000-case configuration runs three
+// times, interleaved, and the fastest run of each counts (all are printed).
 const runs = { one: [] as { seconds: number; maxRssMiB: number }[], two: [] as { seconds: number; maxRssMiB: number }[] };
-for (let repeat = 0; repeat < 2; repeat++) {
+for (let repeat = 0; repeat < 3; repeat++) {
   runs.two.push(sweepRun(100_000, 2));
   runs.one.push(sweepRun(100_000, 1));
 }
