@@ -138,8 +138,9 @@ export function timeInWindow(
   high: number,
   timeAt: (x: number) => number,
 ): number {
-  const inside = (v: number): boolean => v >= low && v <= high;
   let total = 0;
+  // Intervals wholly inside are joined into runs, so time is looked up only where a run ends.
+  let runStart = NaN;
   for (let k = 0; k + 1 < xs.length; k++) {
     const xa = xs[k]!;
     const xb = xs[k + 1]!;
@@ -149,37 +150,63 @@ export function timeInWindow(
     const lowest = Math.min(ys[k]!, ys[k + 1]!) - slack;
     const highest = Math.max(ys[k]!, ys[k + 1]!) + slack;
     if (lowest >= low && highest <= high) {
-      total += timeAt(xb) - timeAt(xa);
+      if (Number.isNaN(runStart)) runStart = xa;
       continue;
     }
-    if (highest < low || lowest > high) continue;
-    const f = (x: number): number => hermite(xa, xb, ys[k]!, ys[k + 1]!, ds[k]!, ds[k + 1]!, x);
-    // Split the interval at every threshold crossing of the interpolant; four probes per interval
-    // catch a cubic that leaves and re-enters the window between samples.
-    let segmentStart = xa;
-    let previousX = xa;
-    let previousInside = inside(ys[k]!);
-    const probes = 4;
-    for (let p = 1; p <= probes; p++) {
-      const x = xa + ((xb - xa) * p) / probes;
-      const now = inside(p === probes ? ys[k + 1]! : f(x));
-      if (now !== previousInside) {
-        let lo = previousX;
-        let hi = x;
-        for (let i = 0; i < 60; i++) {
-          const mid = 0.5 * (lo + hi);
-          if (inside(f(mid)) === previousInside) lo = mid;
-          else hi = mid;
-        }
-        const crossing = 0.5 * (lo + hi);
-        if (previousInside) total += timeAt(crossing) - timeAt(segmentStart);
-        segmentStart = crossing;
-        previousInside = now;
-      }
-      previousX = x;
+    if (!Number.isNaN(runStart)) {
+      total += timeAt(xa) - timeAt(runStart);
+      runStart = NaN;
     }
-    if (previousInside) total += timeAt(xb) - timeAt(segmentStart);
+    if (highest < low || lowest > high) continue;
+    total += timeInsideInterval(xa, xb, ys[k]!, ys[k + 1]!, ds[k]!, ds[k + 1]!, low, high, timeAt);
   }
+  if (!Number.isNaN(runStart)) total += timeAt(xs[xs.length - 1]!) - timeAt(runStart);
+  return total;
+}
+
+/**
+ * Time inside [low, high] on one interval whose Hermite cubic may cross a threshold: the interval
+ * is split at every crossing, found by bisection; four probes catch a cubic that leaves and
+ * re-enters the window between samples. (A function of its own, with no closure over the caller's
+ * loop, so the loop allocates nothing per interval.)
+ */
+function timeInsideInterval(
+  xa: number,
+  xb: number,
+  ya: number,
+  yb: number,
+  da: number,
+  db: number,
+  low: number,
+  high: number,
+  timeAt: (x: number) => number,
+): number {
+  let total = 0;
+  let segmentStart = xa;
+  let previousX = xa;
+  let previousInside = ya >= low && ya <= high;
+  const probes = 4;
+  for (let p = 1; p <= probes; p++) {
+    const x = xa + ((xb - xa) * p) / probes;
+    const v = p === probes ? yb : hermite(xa, xb, ya, yb, da, db, x);
+    const now = v >= low && v <= high;
+    if (now !== previousInside) {
+      let lo = previousX;
+      let hi = x;
+      for (let i = 0; i < 60; i++) {
+        const mid = 0.5 * (lo + hi);
+        const vm = hermite(xa, xb, ya, yb, da, db, mid);
+        if ((vm >= low && vm <= high) === previousInside) lo = mid;
+        else hi = mid;
+      }
+      const crossing = 0.5 * (lo + hi);
+      if (previousInside) total += timeAt(crossing) - timeAt(segmentStart);
+      segmentStart = crossing;
+      previousInside = now;
+    }
+    previousX = x;
+  }
+  if (previousInside) total += timeAt(xb) - timeAt(segmentStart);
   return total;
 }
 
