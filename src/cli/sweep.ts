@@ -1,7 +1,7 @@
 /**
  * `calorbit sweep`: runs a sweep across worker threads and streams its rows to a file in case-id
  * order; resumes an interrupted file; `merge` joins shard files. Memory stays flat: the rows of
- * only a few chunks are ever held, and files are read in fixed-size blocks.
+ * at most 16 chunks per worker are ever held, and files are read in fixed-size blocks.
  */
 import { closeSync, existsSync, fstatSync, ftruncateSync, openSync, readSync, renameSync, rmSync, writeSync } from "node:fs";
 import { cpus } from "node:os";
