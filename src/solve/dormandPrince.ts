@@ -10,7 +10,7 @@
  * Newton pass be sampled (see periodic.ts).
  */
 import { CalorbitError } from "../errors.js";
-import type { DenseSamples, IntegrateOptions, Integrator, OdeSystem, SolverWork } from "./system.js";
+import { emitStart, type DenseSamples, type IntegrateOptions, type Integrator, type OdeSystem, type SolverWork } from "./system.js";
 
 // Nodes and stage weights (Hairer, Nørsett & Wanner 1993, Table 5.2).
 const C2 = 1 / 5;
@@ -220,16 +220,6 @@ export const integrateDormandPrince: Integrator = (
   }
   return { steps, rejected, evaluations };
 };
-
-/** Samples at the very start of the interval take the initial state. */
-function emitStart(samples: DenseSamples, x0: number, y: ArrayLike<number>): number {
-  let k = 0;
-  while (k < samples.xs.length && samples.xs[k]! <= x0) {
-    for (let i = 0; i < samples.components; i++) samples.ys[k * samples.components + i] = y[i]!;
-    k++;
-  }
-  return k;
-}
 
 /**
  * Writes the continuous extension of one step at every pending sample in (xa, xb]; on the last

@@ -12,7 +12,7 @@
  * a fraction of the interval so the interpolation error stays far below the tolerance.
  */
 import { CalorbitError } from "../errors.js";
-import type { DenseSamples, IntegrateOptions, Integrator, OdeSystem, SolverWork } from "./system.js";
+import { emitStart, type DenseSamples, type IntegrateOptions, type Integrator, type OdeSystem, type SolverWork } from "./system.js";
 
 const SQRT6 = Math.sqrt(6);
 const C = [(4 - SQRT6) / 10, (4 + SQRT6) / 10, 1] as const;
@@ -297,16 +297,6 @@ function collocationAt(u: number, y0: number, z: Float64Array, n: number, i: num
     den += wj;
   }
   return num / den;
-}
-
-/** Samples at the very start of the interval take the initial state. */
-function emitStart(samples: DenseSamples, x0: number, y: ArrayLike<number>): number {
-  let k = 0;
-  while (k < samples.xs.length && samples.xs[k]! <= x0) {
-    for (let i = 0; i < samples.components; i++) samples.ys[k * samples.components + i] = y[i]!;
-    k++;
-  }
-  return k;
 }
 
 /**

@@ -44,6 +44,16 @@ export interface DenseSamples {
   components: number;
 }
 
+/** Writes the initial state to the samples at the very start of the interval; returns the first sample still to fill. */
+export function emitStart(samples: DenseSamples, x0: number, y: ArrayLike<number>): number {
+  let k = 0;
+  while (k < samples.xs.length && samples.xs[k]! <= x0) {
+    for (let i = 0; i < samples.components; i++) samples.ys[k * samples.components + i] = y[i]!;
+    k++;
+  }
+  return k;
+}
+
 export interface IntegrateOptions {
   relativeTolerance: number;
   /** Per-component absolute tolerance. */
