@@ -10,7 +10,7 @@
  * Newton pass be sampled (see periodic.ts).
  */
 import { CalorbitError } from "../errors.js";
-import { emitStart, type DenseSamples, type IntegrateOptions, type Integrator, type OdeSystem, type SolverWork } from "./system.js";
+import { emitStart, perDimension, type DenseSamples, type IntegrateOptions, type Integrator, type OdeSystem, type SolverWork } from "./system.js";
 
 // Nodes and stage weights (Hairer, Nørsett & Wanner 1993, Table 5.2).
 const C2 = 1 / 5;
@@ -87,12 +87,7 @@ class Workspace {
   }
 }
 
-const workspaces = new Map<number, Workspace>();
-function workspaceFor(n: number): Workspace {
-  let w = workspaces.get(n);
-  if (!w) workspaces.set(n, (w = new Workspace(n)));
-  return w;
-}
+const workspaceFor = perDimension((n) => new Workspace(n));
 
 /** RMS of v / (atol + rtol |y|) over the components. */
 function weightedNorm(v: Float64Array, y: ArrayLike<number>, atol: Float64Array, rtol: number, n: number): number {

@@ -6,7 +6,7 @@
  */
 import odexModule from "odex";
 import { CalorbitError } from "../errors.js";
-import type { IntegrateOptions, Integrator, OdeSystem, SolverWork } from "./system.js";
+import { perDimension, type IntegrateOptions, type Integrator, type OdeSystem, type SolverWork } from "./system.js";
 
 interface OdexResult {
   y: number[];
@@ -45,15 +45,7 @@ const OUTCOME_CONVERGED = 0;
 const DEFAULT_MAX_STEPS = 200_000;
 
 /** Cached solvers per dimension: odex solvers are reusable and building one is not free. */
-const solvers = new Map<number, OdexSolver>();
-function solverFor(dimension: number): OdexSolver {
-  let s = solvers.get(dimension);
-  if (!s) {
-    s = new Solver(dimension);
-    solvers.set(dimension, s);
-  }
-  return s;
-}
+const solverFor = perDimension((dimension) => new Solver(dimension));
 
 export const integrateOdex: Integrator = (
   system: OdeSystem,

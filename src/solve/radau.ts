@@ -12,7 +12,7 @@
  * a fraction of the interval so the interpolation error stays far below the tolerance.
  */
 import { CalorbitError } from "../errors.js";
-import { emitStart, type DenseSamples, type IntegrateOptions, type Integrator, type OdeSystem, type SolverWork } from "./system.js";
+import { emitStart, perDimension, type DenseSamples, type IntegrateOptions, type Integrator, type OdeSystem, type SolverWork } from "./system.js";
 
 const SQRT6 = Math.sqrt(6);
 const C = [(4 - SQRT6) / 10, (4 + SQRT6) / 10, 1] as const;
@@ -77,12 +77,7 @@ class Workspace {
   }
 }
 
-const workspaces = new Map<number, Workspace>();
-function workspaceFor(n: number): Workspace {
-  let w = workspaces.get(n);
-  if (!w) workspaces.set(n, (w = new Workspace(n)));
-  return w;
-}
+const workspaceFor = perDimension((n) => new Workspace(n));
 
 /** LU (partial pivoting) of I − h (A ⊗ J) in w.lu. Returns false when singular. */
 function factorise(w: Workspace, h: number): boolean {

@@ -44,6 +44,19 @@ export interface DenseSamples {
   components: number;
 }
 
+/**
+ * A per-dimension cache of an integrator's reusable scratch (workspaces, solver objects): built
+ * once for each state dimension, so no integration allocates its buffers again.
+ */
+export function perDimension<T>(make: (dimension: number) => T): (dimension: number) => T {
+  const made = new Map<number, T>();
+  return (dimension) => {
+    let value = made.get(dimension);
+    if (value === undefined) made.set(dimension, (value = make(dimension)));
+    return value;
+  };
+}
+
 /** Writes the initial state to the samples at the very start of the interval; returns the first sample still to fill. */
 export function emitStart(samples: DenseSamples, x0: number, y: ArrayLike<number>): number {
   let k = 0;
