@@ -1,0 +1,86 @@
+/** `calorbit view`: serve the interactive viewer on 127.0.0.1 for a scenario, a result or a sweep file. */
+import type { Command } from "commander";
+import { readFileSync } from "node:fs";
+import { CalorbitError } from "../../errors.js";
+import { columnDocument } from "../../report/columnReport.js";
+import { resultDocument } from "../../report/document.js";
+import { simulateColumn } from "../../simulateColumn.js";
+import { simulate } from "../../simulate.js";
+import { parseSweepText } from "../../view/sweepData.js";
+import { integerFlag, usage } from "../flags.js";
+import { loadScenario } from "../io.js";
+import { startViewServer } from "../viewServer.js";
+
+interface ViewFlags {
+  port: string;
+}
+
+async function viewCommand(path: string | undefined, flags: ViewFlags): Promise<void> {
+  const port = integerFlag("--port", flags.port, 0, 65535);
+  let resultJson: string;
+  if (path !== undefined && isSweepFile(path)) {
+    resultJson = JSON.stringify({ kind: "sweep", file: path, table: parseSweepText(readFileSync(path, "utf8")) });
+  } else if (path !== undefined && path.toLowerCase().endsWith(".json") && looksLikeResult(path)) {
+    resultJson = readFileSync(path, "utf8");
+  } else {
+    const { resolved } = loadScenario(path);
+    if (resolved.thermal.column) {
+      const col = simulateColumn(resolved.thermal, resolved.thermal.column, { samples: 400 });
+      resultJson = JSON.stringify({ kind: "column", ...columnDocument(resolved, col, true), heatMap: columnHeatMap(col) });
+    } else {
+      resultJson = JSON.stringify(resultDocument(resolved, simulate(resolved.thermal, { samples: 2000 }), true));
+    }
+  }
+  const viewer = await startViewServer(resultJson, port);
+  process.stdout.write(`calorbit viewer at ${viewer.url}  (Ctrl-C stops it)\n`);
+  await new Promise<void>((resolve) => {
+    const stop = () => {
+      process.stdout.write("stopping the viewer\n");
+      void viewer.close().then(resolve);
+      // Keep-alive connections from a browser would hold close() open; do not wait for them.
+      viewer.server.closeAllConnections();
+    };
+    process.once("SIGINT", stop);
+    process.once("SIGTERM", stop);
+  });
+}
+
+/** A file written by `calorbit sweep` (its first line says so). */
+function isSweepFile(path: string): boolean {
+  try {
+    const head = readFileSync(path, "utf8").slice(0, 200);
+    return /^# calorbit [^\n]* sweep\n/.test(head);
+  } catch {
+    return false;
+  }
+}
+
+/** Temperature against depth and time for the viewer's heat map: layer centres × the cycle's steps (thinned). */
+function columnHeatMap(col: ReturnType<typeof simulateColumn>) {
+  return { depthsM: col.summary.depthProfile.map((r) => r.depthM), timesSeconds: col.heatMap.timesSeconds, temperatureK: col.heatMap.temperatureK };
+}
+
+/** A result file from `run --json --series` (not a scenario written as JSON). */
+function looksLikeResult(path: string): boolean {
+  try {
+    const doc = JSON.parse(readFileSync(path, "utf8")) as Record<string, unknown>;
+    if ("summary" in doc && "scenario" in doc) {
+      if (!("series" in doc)) throw usage("view", JSON.stringify(path), "a result written with run --json --series (this one has no series)");
+      return true;
+    }
+    return false;
+  } catch (err) {
+    if (err instanceof CalorbitError) throw err;
+    return false;
+  }
+}
+
+export function registerView(program: Command): void {
+  program
+    .command("view")
+    .description("open the interactive viewer in a browser (a local server on 127.0.0.1)")
+    .argument("[file]", "a scenario, a result from run --json --series, or a sweep file; the bundled demo when omitted")
+    .option("--port <n>", "port to listen on (0: a free one)", "0")
+    .addHelpText("after", `\nExamples:\n  calorbit view\n  calorbit view scenarios/korvath-locked.yaml --port 8765`)
+    .action((file: string | undefined, flags: ViewFlags) => viewCommand(file, flags));
+}
