@@ -44,3 +44,30 @@ export const JULIAN_YEAR_S = 365.25 * DAY_S;
 
 /** 0 °C in kelvin (exact). SI definition of the Celsius scale. */
 export const ZERO_CELSIUS_K = 273.15;
+
+// Latitudinal energy-balance (zonal climate) parameters: published defaults, not laws of nature.
+
+/** North's linear outgoing radiation I = A + B (T − 0 °C): A, W m⁻². North, Cahalan & Coakley 1981, Rev. Geophys. 19, 91. */
+export const NORTH_OUTGOING_A_W_PER_M2 = 203.3;
+/** North's linear outgoing radiation: B, W m⁻² K⁻¹. North, Cahalan & Coakley 1981. */
+export const NORTH_OUTGOING_B_W_PER_M2K = 2.09;
+/** Ice-edge temperature of North's step albedo, K (−10 °C). North 1975, J. Atmos. Sci. 32, 1301. */
+export const NORTH_ICE_EDGE_K = 263.15;
+/** Grey infrared optical depth at 273 K, τ_IR = 0.79 (T/273 K)³. Spiegel, Menou & Scharf 2008, ApJ 681, 1609 (from memory). */
+export const GREY_OPTICAL_DEPTH_AT_273K = 0.79;
+/** Reference temperature of the grey optical depth, K. Spiegel et al. 2008 (from memory). */
+export const GREY_OPTICAL_DEPTH_REFERENCE_K = 273;
+/** Smooth ice albedo A(T) = 0.525 − 0.245 tanh((T − 268 K)/5 K): midpoint, half-range, centre, width. Spiegel et al. 2008 (from memory). */
+export const SMOOTH_ICE_ALBEDO = { midpoint: 0.525, halfRange: 0.245, centreK: 268, widthK: 5 } as const;
+/** Land heat capacity C_l, J m⁻² K⁻¹ (5.25e9 erg cm⁻² K⁻¹). Spiegel et al. 2008 (from memory). */
+export const SPIEGEL_LAND_HEAT_CAPACITY_J_PER_M2K = 5.25e6;
+/** Ocean heat capacity over land, C_o = 40 C_l (a 50 m mixed layer). Spiegel et al. 2008 (from memory). */
+export const SPIEGEL_OCEAN_OVER_LAND = 40;
+/** Ice heat capacity over land: 9.2 C_l between 263 and 273 K (latent heat spread over 10 K), 2 C_l below 263 K. Spiegel et al. 2008 (from memory). */
+export const SPIEGEL_ICE_OVER_LAND = { nearFreezing: 9.2, cold: 2 } as const;
+/** Ice fraction of open water below freezing, f_i = 1 − exp((T − 273 K)/10 K). Spiegel et al. 2008 (from memory). */
+export const SPIEGEL_ICE_FRACTION_SCALE_K = 10;
+/** Freezing point used by the Spiegel et al. 2008 ice fraction and ice heat capacity, K (from memory). */
+export const SPIEGEL_FREEZING_K = 273;
+/** Lower edge of the near-freezing ice heat capacity, K. Spiegel et al. 2008 (from memory). */
+export const SPIEGEL_COLD_ICE_K = 263;

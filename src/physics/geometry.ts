@@ -37,8 +37,13 @@ export function stellarRightAscension(obliquityRad: number, trueAnomalyRad: numb
  * compared with the orbit).
  */
 export function dailyMeanInsolation(fluxWPerM2: number, latitudeRad: number, declinationRad: number): number {
-  const sinProduct = Math.sin(latitudeRad) * Math.sin(declinationRad);
-  const cosProduct = Math.cos(latitudeRad) * Math.cos(declinationRad);
+  return dailyMeanInsolationOf(fluxWPerM2, Math.sin(latitudeRad), Math.cos(latitudeRad), Math.sin(declinationRad), Math.cos(declinationRad));
+}
+
+/** The same daily mean from the sines and cosines of φ and δ (for loops over many latitudes). */
+export function dailyMeanInsolationOf(fluxWPerM2: number, sinLatitude: number, cosLatitude: number, sinDeclination: number, cosDeclination: number): number {
+  const sinProduct = sinLatitude * sinDeclination;
+  const cosProduct = cosLatitude * cosDeclination;
   const c = cosProduct === 0 ? (sinProduct > 0 ? -Infinity : Infinity) : -sinProduct / cosProduct;
   let h0: number;
   if (c <= -1) h0 = Math.PI; // polar day
