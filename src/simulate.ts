@@ -13,11 +13,11 @@ import { chooseIntegrator, integrateCycle, INTEGRATORS, plainOdeTolerance, solve
 import { addWork, emptyWork, type SolverWork } from "./solve/system.js";
 import { buildThermalModel, type ThermalModel } from "./thermalModel.js";
 
-export { INTEGRATORS, type IntegratorName };
+import { DEFAULT_RELATIVE_TOLERANCE, DEFAULT_SAMPLES } from "./defaults.js";
+
+export { DEFAULT_RELATIVE_TOLERANCE, DEFAULT_SAMPLES, INTEGRATORS, type IntegratorName };
 
 const TWO_PI = 2 * Math.PI;
-export const DEFAULT_RELATIVE_TOLERANCE = 1e-8;
-export const DEFAULT_SAMPLES = 1000;
 /** Step caps of one orbit's integration: a runaway guard, raised for a point that sees many sunrises. */
 const MIN_STEP_CAP = 200_000;
 const STEPS_PER_SOLAR_DAY = 500;

@@ -1,21 +1,22 @@
-import { spawnSync } from "node:child_process";
+import { spawn, spawnSync } from "node:child_process";
 import { existsSync, mkdtempSync, readFileSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { beforeAll, describe, expect, it } from "vitest";
 import { VERSION } from "../src/version.js";
+import { calorbit, CLI } from "./cliHarness.js";
 
-// The CLI is tested as users run it: the compiled executable (npm test builds it first).
-const CLI = join(import.meta.dirname, "..", "dist", "src", "cli", "main.js");
+// The CLI runs in-process (the compiled program with captured stdout and stderr; npm test builds it
+// first); only what needs a real process (exit status, pipes, start-up) spawns the executable.
 const SCENARIOS = join(import.meta.dirname, "..", "scenarios");
 
-function calorbit(...args: string[]) {
+function spawnCalorbit(...args: string[]) {
   const r = spawnSync(process.execPath, [CLI, ...args], { encoding: "utf8" });
   return { status: r.status, stdout: r.stdout, stderr: r.stderr };
 }
 
 let dir: string;
-beforeAll(() => {
+beforeAll(async () => {
   if (!existsSync(CLI)) throw new Error(`${CLI} is missing: run 'npm run build' (npm test does it)`);
   dir = mkdtempSync(join(tmpdir(), "calorbit-cli-"));
 });
@@ -34,9 +35,9 @@ function scenarioFile(name: string, text: string): string {
   return path;
 }
 
-describe("calorbit run", () => {
-  it("runs the bundled demo with a readable summary and the caution footer", () => {
-    const r = calorbit("run");
+describe("calorbit run", async () => {
+  it("runs the bundled demo with a readable summary and the caution footer", async () => {
+    const r = await calorbit("run");
     expect(r.status).toBe(0);
     expect(r.stdout).toContain("Periodic steady state");
     expect(r.stdout).toMatch(/temperature\s+\d+\.\d+ K/);
@@ -44,8 +45,8 @@ describe("calorbit run", () => {
     expect(r.stdout).toContain("thermal-control standard");
   });
 
-  it("prints one JSON document that carries the contract fields", () => {
-    const r = calorbit("run", join(SCENARIOS, "calyndra-ocean.yaml"), "--json");
+  it("prints one JSON document that carries the contract fields", async () => {
+    const r = await calorbit("run", join(SCENARIOS, "calyndra-ocean.yaml"), "--json");
     expect(r.status).toBe(0);
     const doc = JSON.parse(r.stdout);
     expect(doc.calorbit.version).toBe(VERSION);
@@ -65,17 +66,17 @@ describe("calorbit run", () => {
     expect(doc.series).toBeUndefined();
   });
 
-  it("omits timeInRange without thresholds and gives a null lag on a circular orbit", () => {
+  it("omits timeInRange without thresholds and gives a null lag on a circular orbit", async () => {
     const path = scenarioFile("circular.yaml", validScenario.replace("eccentricity: 0.2", "eccentricity: 0").replace(/thresholds.*\n/, ""));
-    const doc = JSON.parse(calorbit("run", path, "--json").stdout);
+    const doc = JSON.parse((await calorbit("run", path, "--json")).stdout);
     expect(doc.summary.timeInRange).toBeUndefined();
     expect(doc.summary.lagSeconds).toBeNull();
     expect(doc.summary.dampingRatio).toBe(1);
   });
 
-  it("writes the series as CSV with the version, the resolved scenario and units in the header", () => {
+  it("writes the series as CSV with the version, the resolved scenario and units in the header", async () => {
     const out = join(dir, "series.csv");
-    const r = calorbit("run", scenarioFile("ok.yaml", validScenario), "--csv", out, "--samples", "50");
+    const r = await calorbit("run", scenarioFile("ok.yaml", validScenario), "--csv", out, "--samples", "50");
     expect(r.status).toBe(0);
     const lines = readFileSync(out, "utf8").trim().split("\n");
     expect(lines[0]).toBe(`# calorbit ${VERSION}`);
@@ -85,22 +86,22 @@ describe("calorbit run", () => {
     expect(lines.filter((l) => !l.startsWith("#")).length).toBe(51);
   });
 
-  it("includes the columnar series in JSON with --series", () => {
-    const doc = JSON.parse(calorbit("run", scenarioFile("ok2.yaml", validScenario), "--json", "--series", "--samples", "20").stdout);
+  it("includes the columnar series in JSON with --series", async () => {
+    const doc = JSON.parse((await calorbit("run", scenarioFile("ok2.yaml", validScenario), "--json", "--series", "--samples", "20")).stdout);
     expect(doc.series.timeSeconds).toHaveLength(20);
     expect(doc.series.temperatureK).toHaveLength(20);
   });
 
-  it("integrates a transient from a cold start with --from and --orbits", () => {
-    const doc = JSON.parse(calorbit("run", scenarioFile("ok3.yaml", validScenario), "--json", "--from", "-100degC", "--orbits", "3").stdout);
+  it("integrates a transient from a cold start with --from and --orbits", async () => {
+    const doc = JSON.parse((await calorbit("run", scenarioFile("ok3.yaml", validScenario), "--json", "--from", "-100degC", "--orbits", "3")).stdout);
     expect(doc.solver.mode).toBe("transient");
     expect(doc.solver.orbitsIntegrated).toBe(3);
   });
 
-  it("cross-checks a case with the odex package's extrapolation integrator (--integrator odex) to 1e-8", () => {
+  it("cross-checks a case with the odex package's extrapolation integrator (--integrator odex) to 1e-8", async () => {
     const path = scenarioFile("ok5.yaml", validScenario);
-    const ours = JSON.parse(calorbit("run", path, "--json", "--samples", "20").stdout);
-    const odex = JSON.parse(calorbit("run", path, "--json", "--samples", "20", "--integrator", "odex").stdout);
+    const ours = JSON.parse((await calorbit("run", path, "--json", "--samples", "20")).stdout);
+    const odex = JSON.parse((await calorbit("run", path, "--json", "--samples", "20", "--integrator", "odex")).stdout);
     expect(odex.solver.integrator).toBe("odex");
     expect(ours.solver.integrator).not.toBe("odex");
     expect(Math.abs(odex.summary.temperature.meanK / ours.summary.temperature.meanK - 1)).toBeLessThan(1e-8);
@@ -108,31 +109,31 @@ describe("calorbit run", () => {
   });
 });
 
-describe("calorbit check, schema, equilibrium", () => {
-  it("check prints what it understood with the derived period and τ/P", () => {
-    const r = calorbit("check", scenarioFile("ok4.yaml", validScenario));
+describe("calorbit check, schema, equilibrium", async () => {
+  it("check prints what it understood with the derived period and τ/P", async () => {
+    const r = await calorbit("check", scenarioFile("ok4.yaml", validScenario));
     expect(r.status).toBe(0);
     expect(r.stdout).toContain("valid scenario");
     expect(r.stdout).toContain("Kepler's third law");
     expect(r.stdout).toMatch(/τ\/P = [\d.]+/);
   });
 
-  it("schema prints a JSON Schema that names the scenario keys", () => {
-    const schema = JSON.parse(calorbit("schema").stdout);
+  it("schema prints a JSON Schema that names the scenario keys", async () => {
+    const schema = JSON.parse((await calorbit("schema")).stdout);
     expect(schema.$schema).toContain("json-schema.org");
     expect(Object.keys(schema.properties)).toEqual(expect.arrayContaining(["name", "star", "orbit", "body", "regime", "thresholds"]));
     expect(schema.properties.orbit.additionalProperties).toBe(false);
   });
 
-  it("equilibrium gives 278.33 K at 1 au from 1 L☉ with A = 0 (IAU 2015 B3 nominal luminosity, derived)", () => {
-    const r = calorbit("equilibrium", "--luminosity", "1Lsun", "--distance", "1au");
+  it("equilibrium gives 278.33 K at 1 au from 1 L☉ with A = 0 (IAU 2015 B3 nominal luminosity, derived)", async () => {
+    const r = await calorbit("equilibrium", "--luminosity", "1Lsun", "--distance", "1au");
     expect(r.status).toBe(0);
     expect(r.stdout).toContain("278.33 K");
     expect(r.stdout).toMatch(/Wien peak\s+10\.41 µm/);
   });
 });
 
-describe("bad input: one line per problem, exit status 2, no stack trace", () => {
+describe("bad input: one line per problem, exit status 2, no stack trace", async () => {
   const cases: Array<[string, string, RegExp]> = [
     ["missing field", validScenario.replace("semiMajorAxis: 1 au, ", ""), /^calorbit: orbit\.semiMajorAxis: given missing; allowed: /m],
     ["e ≥ 1", validScenario.replace("eccentricity: 0.2", "eccentricity: 1.0"), /^calorbit: orbit\.eccentricity: given 1; allowed: a number with 0 ≤ e < 1$/m],
@@ -142,9 +143,9 @@ describe("bad input: one line per problem, exit status 2, no stack trace", () =>
     ["unknown key", validScenario.replace("albedo: 0.3", "albedo: 0.3, colour: red"), /^calorbit: body\.colour: given "red"; allowed: no such key here/m],
   ];
   for (const [what, text, message] of cases) {
-    it(`reports ${what}`, () => {
+    it(`reports ${what}`, async () => {
       const out = join(dir, `never-${what.replace(/\W/g, "")}.csv`);
-      const r = calorbit("run", scenarioFile(`bad-${what.replace(/\W/g, "")}.yaml`, text), "--csv", out);
+      const r = await calorbit("run", scenarioFile(`bad-${what.replace(/\W/g, "")}.yaml`, text), "--csv", out);
       expect(r.status).toBe(2);
       expect(r.stderr).toMatch(message);
       expect(r.stderr).not.toMatch(/^\s+at /m);
@@ -153,9 +154,9 @@ describe("bad input: one line per problem, exit status 2, no stack trace", () =>
     });
   }
 
-  it("reports every problem of a scenario, one line each", () => {
+  it("reports every problem of a scenario, one line each", async () => {
     const text = validScenario.replace("eccentricity: 0.2", "eccentricity: 2").replace("albedo: 0.3", "albedo: 7");
-    const r = calorbit("check", scenarioFile("two.yaml", text));
+    const r = await calorbit("check", scenarioFile("two.yaml", text));
     expect(r.status).toBe(2);
     expect(r.stderr).toMatchInlineSnapshot(`
       "calorbit: orbit.eccentricity: given 2; allowed: a number with 0 ≤ e < 1
@@ -164,44 +165,44 @@ describe("bad input: one line per problem, exit status 2, no stack trace", () =>
     `);
   });
 
-  it("reports a malformed file with its line", () => {
-    const r = calorbit("run", scenarioFile("broken.yaml", "name: x\nstar: [unclosed\n"));
+  it("reports a malformed file with its line", async () => {
+    const r = await calorbit("run", scenarioFile("broken.yaml", "name: x\nstar: [unclosed\n"));
     expect(r.status).toBe(2);
     expect(r.stderr).toMatch(/^calorbit: .*broken\.yaml: not valid YAML at line \d+, column \d+: .+$/m);
     expect(r.stderr.trim().split("\n")).toHaveLength(1);
   });
 
-  it("reports a file that does not exist", () => {
-    const r = calorbit("run", join(dir, "nowhere.yaml"));
+  it("reports a file that does not exist", async () => {
+    const r = await calorbit("run", join(dir, "nowhere.yaml"));
     expect(r.status).toBe(2);
     expect(r.stderr).toMatch(/nowhere\.yaml: no such file$/m);
   });
 
-  it("reports a bad flag value and an unknown flag", () => {
-    expect(calorbit("run", "--samples", "many").stderr).toMatchInlineSnapshot(`
+  it("reports a bad flag value and an unknown flag", async () => {
+    expect((await calorbit("run", "--samples", "many")).stderr).toMatchInlineSnapshot(`
       "calorbit: --samples: given "many"; allowed: an integer from 2 to 10000000
       "
     `);
-    expect(calorbit("run", "--integrator", "euler").stderr).toBe('calorbit: --integrator: given "euler"; allowed: dormand-prince, odex, radau\n');
-    const r = calorbit("run", "--frobnicate");
+    expect((await calorbit("run", "--integrator", "euler")).stderr).toBe('calorbit: --integrator: given "euler"; allowed: dormand-prince, odex, radau\n');
+    const r = await calorbit("run", "--frobnicate");
     expect(r.status).toBe(2);
     expect(r.stderr).toContain("unknown option '--frobnicate'");
   });
 });
 
-describe("calorbit compare and insolation", () => {
-  it("puts every regime in one table, and its JSON rows agree with single-regime runs", () => {
+describe("calorbit compare and insolation", async () => {
+  it("puts every regime in one table, and its JSON rows agree with single-regime runs", async () => {
     const path = join(SCENARIOS, "korvath-locked.yaml");
-    const table = calorbit("compare", path);
+    const table = await calorbit("compare", path);
     expect(table.status).toBe(0);
     for (const label of ["global", "dayside", "substellar", "daynight day", "daynight night", "band", "point"]) {
       expect(table.stdout).toMatch(new RegExp(`^${label}\\s+\\d`, "m"));
     }
-    const doc = JSON.parse(calorbit("compare", path, "--json", "--regimes", "global,daynight,point").stdout);
+    const doc = JSON.parse((await calorbit("compare", path, "--json", "--regimes", "global,daynight,point")).stdout);
     expect(doc.results.map((r: { regime: string }) => r.regime)).toEqual(["global", "daynight", "point"]);
     for (const row of doc.results) {
       const single = scenarioFile(`single-${row.regime}.yaml`, readFileSync(path, "utf8").replace("regime: daynight", `regime: ${row.regime}`));
-      const alone = JSON.parse(calorbit("run", single, "--json").stdout);
+      const alone = JSON.parse((await calorbit("run", single, "--json")).stdout);
       expect(row.summary.temperature.minK).toBeCloseTo(alone.summary.temperature.minK, 6);
       expect(row.summary.temperature.maxK).toBeCloseTo(alone.summary.temperature.maxK, 6);
       expect(row.summary.temperature.meanK).toBeCloseTo(alone.summary.temperature.meanK, 6);
@@ -209,9 +210,9 @@ describe("calorbit compare and insolation", () => {
     expect(doc.results[1].summary.day.temperature.minK).toBeGreaterThan(doc.results[1].summary.night.temperature.maxK);
   });
 
-  it("writes one column per regime on a shared time axis, tiling shorter cycles", () => {
+  it("writes one column per regime on a shared time axis, tiling shorter cycles", async () => {
     const out = join(dir, "compare.csv");
-    const r = calorbit("compare", join(SCENARIOS, "miradel-resonant.yaml"), "--regimes", "global,point", "--csv", out, "--samples", "201");
+    const r = await calorbit("compare", join(SCENARIOS, "miradel-resonant.yaml"), "--regimes", "global,point", "--csv", out, "--samples", "201");
     expect(r.status).toBe(0);
     const rows = readFileSync(out, "utf8").trim().split("\n").filter((l) => !l.startsWith("#"));
     expect(rows[0]).toBe("time_s,T_global_K,Teq_global_K,T_point_K,Teq_point_K");
@@ -222,20 +223,20 @@ describe("calorbit compare and insolation", () => {
     expect(col(3)[0]).not.toBeCloseTo(col(3)[100]!, 1);
   });
 
-  it("reports a regime that cannot run instead of failing the comparison", () => {
-    const doc = JSON.parse(calorbit("compare", scenarioFile("nonight.yaml", validScenario), "--json", "--regimes", "global,daynight").stdout);
+  it("reports a regime that cannot run instead of failing the comparison", async () => {
+    const doc = JSON.parse((await calorbit("compare", scenarioFile("nonight.yaml", validScenario), "--json", "--regimes", "global,daynight")).stdout);
     expect(doc.results[0].summary).toBeDefined();
     expect(doc.results[1].error).toMatch(/recirculation/);
   });
 
-  it("rejects an unknown regime in --regimes", () => {
-    const r = calorbit("compare", "--regimes", "global,sideways");
+  it("rejects an unknown regime in --regimes", async () => {
+    const r = await calorbit("compare", "--regimes", "global,sideways");
     expect(r.status).toBe(2);
     expect(r.stderr).toMatch(/^calorbit: --regimes: given "global,sideways"; allowed: a comma-separated list of /m);
   });
 
-  it("prints the seasonal insolation map as latitude × orbital phase (Berger 1978 daily means)", () => {
-    const r = calorbit("insolation", join(SCENARIOS, "ilvane-tilted.yaml"), "--latitudes", "19", "--phases", "12");
+  it("prints the seasonal insolation map as latitude × orbital phase (Berger 1978 daily means)", async () => {
+    const r = await calorbit("insolation", join(SCENARIOS, "ilvane-tilted.yaml"), "--latitudes", "19", "--phases", "12");
     expect(r.status).toBe(0);
     const rows = r.stdout.trim().split("\n").filter((l) => !l.startsWith("#"));
     expect(rows).toHaveLength(20);
@@ -245,50 +246,50 @@ describe("calorbit compare and insolation", () => {
   });
 });
 
-describe("scenario keys for spin, surface and exchange", () => {
-  it("rejects a malformed orbit ratio, a latitude past the pole and both exchange forms at once", () => {
+describe("scenario keys for spin, surface and exchange", async () => {
+  it("rejects a malformed orbit ratio, a latitude past the pole and both exchange forms at once", async () => {
     const text = validScenario
       .replace("thresholds", 'spin: { orbitRatio: "3/2" }\nsurface: { latitude: 95 deg }\nthresholds')
       .replace("heatCapacity: 1e8 J/m2/K", "heatCapacity: 1e8 J/m2/K, recirculation: 0.2, exchangeCoefficient: 1");
-    const r = calorbit("check", scenarioFile("spin-bad.yaml", text));
+    const r = await calorbit("check", scenarioFile("spin-bad.yaml", text));
     expect(r.status).toBe(2);
     expect(r.stderr).toMatchInlineSnapshot(`
       "calorbit: spin.orbitRatio: given "3/2"; allowed: a spin:orbit ratio of positive whole numbers such as "1:1" or "3:2"
       calorbit: surface.latitude: given "95 deg"; allowed: an angle from -90 to 90 deg
       "
     `);
-    const both = calorbit("check", scenarioFile("both.yaml", validScenario.replace("heatCapacity: 1e8 J/m2/K", "heatCapacity: 1e8 J/m2/K, recirculation: 0.2, exchangeCoefficient: 1")));
+    const both = await calorbit("check", scenarioFile("both.yaml", validScenario.replace("heatCapacity: 1e8 J/m2/K", "heatCapacity: 1e8 J/m2/K, recirculation: 0.2, exchangeCoefficient: 1")));
     expect(both.stderr).toMatch(/^calorbit: body\.exchangeCoefficient: given 1; allowed: either body\.recirculation or body\.exchangeCoefficient, not both$/m);
   });
 
-  it("reports a point's solar day and a daynight run's two hemispheres in JSON", () => {
-    const point = JSON.parse(calorbit("run", join(SCENARIOS, "miradel-resonant.yaml"), "--json").stdout);
+  it("reports a point's solar day and a daynight run's two hemispheres in JSON", async () => {
+    const point = JSON.parse((await calorbit("run", join(SCENARIOS, "miradel-resonant.yaml"), "--json")).stdout);
     expect(point.summary.solarDaySeconds / point.summary.periodSeconds).toBeCloseTo(2, 9);
     expect(point.summary.temperature.maxK).toBeGreaterThan(point.summary.temperature.minK);
-    const dn = JSON.parse(calorbit("run", join(SCENARIOS, "korvath-locked.yaml"), "--json").stdout);
+    const dn = JSON.parse((await calorbit("run", join(SCENARIOS, "korvath-locked.yaml"), "--json")).stdout);
     for (const side of ["day", "night"]) {
       for (const key of ["minK", "maxK", "meanK"]) expect(typeof dn.summary[side].temperature[key]).toBe("number");
     }
     expect(dn.summary.temperature).toEqual(dn.summary.day.temperature);
   });
 
-  it("writes both hemispheres and their absorbed flux to the run CSV", () => {
+  it("writes both hemispheres and their absorbed flux to the run CSV", async () => {
     const out = join(dir, "dn.csv");
-    calorbit("run", join(SCENARIOS, "korvath-locked.yaml"), "--csv", out, "--samples", "10");
+    await calorbit("run", join(SCENARIOS, "korvath-locked.yaml"), "--csv", out, "--samples", "10");
     const header = readFileSync(out, "utf8").split("\n").find((l) => !l.startsWith("#"))!;
     expect(header).toContain("absorbed_flux_W_m2");
     expect(header).toContain("temperature_night_K,equilibrium_night_K,absorbed_flux_night_W_m2");
   });
 });
 
-describe("a conduction column from the CLI", () => {
-  it("runs the regolith demo with day and night temperatures, skin depths and the depth profile", () => {
+describe("a conduction column from the CLI", async () => {
+  it("runs the regolith demo with day and night temperatures, skin depths and the depth profile", async () => {
     const path = join(SCENARIOS, "sarvek-regolith.yaml");
-    const text = calorbit("run", path);
+    const text = await calorbit("run", path);
     expect(text.status).toBe(0);
     expect(text.stdout).toContain("Depth profile");
     expect(text.stdout).toMatch(/skin depth\s+diurnal [\d.]+ m, orbital [\d.]+ m/);
-    const doc = JSON.parse(calorbit("run", path, "--json").stdout);
+    const doc = JSON.parse((await calorbit("run", path, "--json")).stdout);
     expect(doc.summary.temperature.minK).toBeLessThan(doc.summary.temperature.maxK);
     expect(doc.summary.depthProfile.length).toBeGreaterThan(10);
     for (const row of doc.summary.depthProfile) expect(Object.keys(row)).toEqual(["depthM", "minK", "maxK", "meanK"]);
@@ -298,17 +299,60 @@ describe("a conduction column from the CLI", () => {
     expect(last.maxK - last.minK).toBeLessThan(0.1 * (first.maxK - first.minK));
     expect(Math.abs(doc.summary.energyBalanceResidual)).toBeLessThan(1e-6);
     const out = join(dir, "column.csv");
-    calorbit("run", path, "--csv", out, "--samples", "30");
+    await calorbit("run", path, "--csv", out, "--samples", "30");
     const header = readFileSync(out, "utf8").split("\n").find((l) => !l.startsWith("#"))!;
     expect(header).toBe("time_s,distance_au,absorbed_flux_W_m2,surface_temperature_K,equilibrium_K,temperature_at_0.01m_K,temperature_at_0.05m_K,temperature_at_0.3m_K");
   });
 
-  it("rejects a column given with a heat capacity, and a sweep or comparison of a column case says why", () => {
+  it("rejects a column given with a heat capacity, and a sweep or comparison of a column case says why", async () => {
     const text = validScenario.replace("heatCapacity: 1e8 J/m2/K", "heatCapacity: 1e8 J/m2/K, column: { thermalInertia: 50 }");
-    const r = calorbit("check", scenarioFile("colbad.yaml", text));
+    const r = await calorbit("check", scenarioFile("colbad.yaml", text));
     expect(r.status).toBe(2);
     expect(r.stderr).toMatch(/^calorbit: body\.column: given .*; allowed: either a column or body\.heatCapacity \/ body\.layer, not both$/m);
-    const doc = JSON.parse(calorbit("compare", join(SCENARIOS, "sarvek-regolith.yaml"), "--json", "--regimes", "global").stdout);
+    const doc = JSON.parse((await calorbit("compare", join(SCENARIOS, "sarvek-regolith.yaml"), "--json", "--regimes", "global")).stdout);
     expect(doc.results[0].error).toMatch(/column/);
+  });
+});
+
+describe("calorbit as a process (what needs a real one: exit status, pipes, start-up)", () => {
+  it("exits with status 2 and one line, no stack trace, on bad input", () => {
+    const r = spawnCalorbit("run", scenarioFile("bad-process.yaml", validScenario.replace("eccentricity: 0.2", "eccentricity: 1.0")));
+    expect(r.status).toBe(2);
+    expect(r.stderr).toBe("calorbit: orbit.eccentricity: given 1; allowed: a number with 0 ≤ e < 1\n");
+    expect(r.stdout).toBe("");
+  });
+
+  /** Starts the CLI with its stdout pipe already closed by the reader (as `| head` does), and waits. */
+  function withClosedStdout(...args: string[]): Promise<{ status: number | null; stderr: string }> {
+    return new Promise((resolve, reject) => {
+      const child = spawn(process.execPath, [CLI, ...args], { stdio: ["ignore", "pipe", "pipe"] });
+      child.stdout.destroy();
+      let stderr = "";
+      child.stderr.setEncoding("utf8").on("data", (chunk: string) => (stderr += chunk));
+      child.on("error", reject);
+      child.on("close", (status) => resolve({ status, stderr }));
+    });
+  }
+
+  it("ends quietly with status 0 when the reader closes the pipe (insolation | head, run --json --series | head, sweep merge --help | head)", async () => {
+    for (const args of [["insolation"], ["run", "--json", "--series"], ["sweep", "merge", "--help"]]) {
+      const r = await withClosedStdout(...args);
+      expect({ args, ...r }).toEqual({ args, status: 0, stderr: "" });
+    }
+  });
+
+  it("starts without loading the scenario reader (zod, YAML), the solvers, the sweep runner or the server", () => {
+    // A resolve hook records every module the executable loads for --version.
+    const log = join(dir, "imports.log");
+    const hooks = join(dir, "record-imports.mjs");
+    writeFileSync(hooks, `import { appendFileSync } from "node:fs";\nexport async function resolve(s, c, next) { const r = await next(s, c); appendFileSync(${JSON.stringify(log)}, r.url + "\\n"); return r; }\n`);
+    const register = `data:text/javascript,import{register}from"node:module";register(${JSON.stringify(`file://${hooks}`)})`;
+    const r = spawnSync(process.execPath, ["--import", register, CLI, "--version"], { encoding: "utf8" });
+    expect(r.status).toBe(0);
+    expect(r.stdout).toBe(`${VERSION}\n`);
+    const loaded = readFileSync(log, "utf8").trim().split("\n");
+    expect(loaded.some((url) => url.endsWith("/cli/program.js"))).toBe(true);
+    const heavy = loaded.filter((url) => /node_modules\/(zod|yaml|odex|cli-progress)\/|\/src\/(simulate|cli\/sweep|cli\/viewServer|scenario\/resolve|scenario\/text)\.js$|node:(http|worker_threads)$/.test(url));
+    expect(heavy).toEqual([]);
   });
 });

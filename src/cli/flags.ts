@@ -4,7 +4,7 @@
  */
 import { CalorbitError } from "../errors.js";
 import { parseQuantity, type QuantityKind } from "../scenario/units.js";
-import { INTEGRATORS, type IntegratorName } from "../simulate.js";
+import { INTEGRATORS, type IntegratorName } from "../defaults.js";
 
 /** A USAGE error for one flag: `path: given …; allowed: …`. */
 export function usage(path: string, given: string, allowed: string): CalorbitError {

@@ -5,6 +5,7 @@
  */
 import { Command, CommanderError } from "commander";
 import { CalorbitError, formatProblem } from "../errors.js";
+import { err, out, processStreams, withStreams, type OutputStreams } from "./output.js";
 import { VERSION } from "../version.js";
 import { registerCheck } from "./commands/check.js";
 import { registerCompare } from "./commands/compare.js";
@@ -37,37 +38,49 @@ export function buildProgram(): Command {
     .description("Temperature histories of bodies on eccentric orbits, against the instantaneous equilibrium.")
     .version(VERSION)
     .showHelpAfterError("(run with --help for usage)")
-    .configureOutput({ writeErr: (s) => void process.stderr.write(s) })
+    .configureOutput({ writeOut: (s) => out(s), writeErr: (s) => err(s) })
     .exitOverride();
   for (const register of COMMANDS) register(program);
   return program;
 }
 
-/** Runs the CLI on an argv (node, script, ...args); resolves to the exit status. */
-export async function main(argv: string[]): Promise<number> {
-  const program = buildProgram();
-  try {
-    await program.parseAsync(argv);
-    return 0;
-  } catch (err) {
-    return reportError(err);
-  }
+/**
+ * Runs the CLI on an argv (node, script, ...args); resolves to the exit status. `streams` receive
+ * what would go to stdout and stderr (the process's own by default; tests pass collectors).
+ */
+export async function main(argv: string[], streams: OutputStreams = processStreams): Promise<number> {
+  return withStreams(streams, async () => {
+    const program = buildProgram();
+    try {
+      await program.parseAsync(argv);
+      return 0;
+    } catch (error) {
+      return reportError(error);
+    }
+  });
 }
 
-function reportError(err: unknown): number {
-  if (err instanceof CommanderError) {
+function reportError(error: unknown): number {
+  if (error instanceof CommanderError) {
     // Help and version are not errors; commander has already printed its message otherwise.
-    return err.code === "commander.helpDisplayed" || err.code === "commander.version" || err.exitCode === 0 ? 0 : EXIT_BAD_INPUT;
+    return error.code === "commander.helpDisplayed" || error.code === "commander.version" || error.exitCode === 0 ? 0 : EXIT_BAD_INPUT;
   }
-  if (err instanceof CalorbitError) {
-    if (err.problems.length > 0) {
-      for (const p of err.problems) process.stderr.write(`calorbit: ${formatProblem(p)}\n`);
+  if (error instanceof CalorbitError) {
+    if (error.problems.length > 0) {
+      for (const p of error.problems) err(`calorbit: ${formatProblem(p)}\n`);
     } else {
-      process.stderr.write(`calorbit: ${err.message}\n`);
+      err(`calorbit: ${error.message}\n`);
     }
-    const badInput = err.code === "SCENARIO_INVALID" || err.code === "SCENARIO_UNREADABLE" || err.code === "USAGE" || err.code === "INVALID_ARGUMENT";
+    const badInput = error.code === "SCENARIO_INVALID" || error.code === "SCENARIO_UNREADABLE" || error.code === "USAGE" || error.code === "INVALID_ARGUMENT";
     return badInput ? EXIT_BAD_INPUT : EXIT_FAILURE;
   }
-  process.stderr.write(`calorbit: internal error: ${err instanceof Error ? err.message : String(err)}\n`);
+  // A reader that stopped reading (`| head`) is not a failure: end quietly, as other Unix tools do.
+  if (isBrokenPipe(error)) return 0;
+  err(`calorbit: internal error: ${error instanceof Error ? error.message : String(error)}\n`);
   return EXIT_FAILURE;
+}
+
+/** A write to a pipe whose reader has gone (EPIPE). */
+export function isBrokenPipe(error: unknown): boolean {
+  return typeof error === "object" && error !== null && (error as { code?: unknown }).code === "EPIPE";
 }

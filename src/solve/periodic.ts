@@ -10,6 +10,7 @@
  * has 0 < Φ' < 1) and bisect when a Newton step would leave it, so they cannot diverge.
  */
 import { CalorbitError } from "../errors.js";
+import { INTEGRATORS, type IntegratorName } from "../defaults.js";
 import { integrateDormandPrince } from "./dormandPrince.js";
 import { integrateOdex } from "./odexIntegrator.js";
 import { integrateRadau } from "./radau.js";
@@ -48,8 +49,7 @@ const COARSEST_ODE_TOLERANCE = 1e-6;
 const FIRST_GUESS_ERROR = 1e-3;
 
 /** "dormand-prince": explicit 5(4) pair; "radau": implicit Radau IIA; "odex": extrapolation (the odex package), on request only. */
-export const INTEGRATORS = ["dormand-prince", "odex", "radau"] as const;
-export type IntegratorName = (typeof INTEGRATORS)[number];
+export { INTEGRATORS, type IntegratorName };
 
 export interface PeriodicProblem {
   system: OdeSystem;

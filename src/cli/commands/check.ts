@@ -1,12 +1,15 @@
 /** `calorbit check`: validate a scenario and print what was understood, with the derived period and τ/P. */
 import type { Command } from "commander";
-import { specificHeatAt } from "../../physics/column.js";
-import { duration, sig } from "../../report/format.js";
-import { describeScenario } from "../../report/text.js";
-import { buildThermalModel } from "../../thermalModel.js";
-import { loadScenario } from "../io.js";
+import { out } from "../output.js";
 
-function checkCommand(scenarioPath: string): void {
+async function checkCommand(scenarioPath: string): Promise<void> {
+  const [{ specificHeatAt }, { duration, sig }, { describeScenario }, { buildThermalModel }, { loadScenario }] = await Promise.all([
+    import("../../physics/column.js"),
+    import("../../report/format.js"),
+    import("../../report/text.js"),
+    import("../../thermalModel.js"),
+    import("../io.js"),
+  ]);
   const { resolved, file } = loadScenario(scenarioPath);
   const { thermal } = resolved;
   const model = buildThermalModel(thermal);
@@ -26,7 +29,7 @@ function checkCommand(scenarioPath: string): void {
   if (model.solarDaySeconds !== undefined) {
     lines.push(`            solar day ${model.solarDaySeconds === null ? "none (synchronous)" : duration(model.solarDaySeconds)}, cycle ${model.cycleOrbits} orbit(s)${model.commensurate ? "" : " (not commensurate: seasonal convergence)"}`);
   }
-  process.stdout.write(lines.join("\n") + "\n");
+  out(lines.join("\n") + "\n");
 }
 
 export function registerCheck(program: Command): void {

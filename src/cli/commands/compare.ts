@@ -1,11 +1,9 @@
 /** `calorbit compare`: one scenario under several regimes, side by side. */
 import type { Command } from "commander";
-import { compareRegimes } from "../../compare.js";
+import { DEFAULT_RELATIVE_TOLERANCE, DEFAULT_SAMPLES } from "../../defaults.js";
 import { REGIMES, type Regime } from "../../model.js";
-import { compareCsv, compareDocument, compareTable } from "../../report/compareReport.js";
-import { DEFAULT_RELATIVE_TOLERANCE, DEFAULT_SAMPLES } from "../../simulate.js";
 import { integerFlag, toleranceFlag, usage } from "../flags.js";
-import { loadScenario, writeFileAtomic } from "../io.js";
+import { out } from "../output.js";
 
 interface CompareFlags {
   regimes: string;
@@ -15,7 +13,7 @@ interface CompareFlags {
   tolerance: string;
 }
 
-function compareCommand(scenarioPath: string | undefined, flags: CompareFlags): void {
+async function compareCommand(scenarioPath: string | undefined, flags: CompareFlags): Promise<void> {
   const regimes = flags.regimes.split(",").map((r) => r.trim()).filter((r) => r.length > 0);
   const unknown = regimes.filter((r) => !(REGIMES as readonly string[]).includes(r));
   if (regimes.length === 0 || unknown.length > 0) {
@@ -23,11 +21,16 @@ function compareCommand(scenarioPath: string | undefined, flags: CompareFlags): 
   }
   const samples = integerFlag("--samples", flags.samples, 2, 10_000_000);
   const relativeTolerance = toleranceFlag(flags.tolerance);
+  const [{ loadScenario, writeFileAtomic }, { compareRegimes }, { compareCsv, compareDocument, compareTable }] = await Promise.all([
+    import("../io.js"),
+    import("../../compare.js"),
+    import("../../report/compareReport.js"),
+  ]);
   const { resolved } = loadScenario(scenarioPath);
   const comparison = compareRegimes(resolved.thermal, regimes as Regime[], { samples, relativeTolerance });
   if (flags.csv !== undefined) writeFileAtomic(flags.csv, compareCsv(resolved, comparison));
-  if (flags.json) process.stdout.write(JSON.stringify(compareDocument(resolved, comparison), null, 2) + "\n");
-  else process.stdout.write(compareTable(resolved, comparison));
+  if (flags.json) out(JSON.stringify(compareDocument(resolved, comparison), null, 2) + "\n");
+  else out(compareTable(resolved, comparison));
 }
 
 export function registerCompare(program: Command): void {

@@ -4,6 +4,7 @@ import { equilibriumTemperature, GEOMETRY_FACTOR, LUMPED_REGIMES, stellarFlux, w
 import { luminosityFromRadiusTemperature } from "../../physics/star.js";
 import { sig } from "../../report/format.js";
 import { quantityFlag, usage } from "../flags.js";
+import { out } from "../output.js";
 
 interface EquilibriumFlags {
   luminosity?: string;
@@ -43,7 +44,7 @@ function equilibriumCommand(flags: EquilibriumFlags): void {
   const s = stellarFlux(luminosityW, distanceM);
   const absorbed = GEOMETRY_FACTOR[flags.regime] * (1 - albedo) * s + q;
   const t = equilibriumTemperature(absorbed, emissivity);
-  process.stdout.write(
+  out(
     [
       `stellar flux        ${s.toFixed(3)} W m⁻²`,
       `absorbed (${flags.regime}, f = ${GEOMETRY_FACTOR[flags.regime]})   ${absorbed.toFixed(3)} W m⁻²`,

@@ -1,9 +1,7 @@
 /** `calorbit insolation`: the latitude × orbital-phase daily-mean insolation table as CSV. */
 import type { Command } from "commander";
-import { insolationMap } from "../../analysis/insolationMap.js";
-import { insolationCsv } from "../../report/compareReport.js";
 import { integerFlag } from "../flags.js";
-import { loadScenario, writeFileAtomic } from "../io.js";
+import { out } from "../output.js";
 
 interface InsolationFlags {
   latitudes: string;
@@ -11,16 +9,21 @@ interface InsolationFlags {
   out?: string;
 }
 
-function insolationCommand(scenarioPath: string | undefined, flags: InsolationFlags): void {
+async function insolationCommand(scenarioPath: string | undefined, flags: InsolationFlags): Promise<void> {
   const latitudes = integerFlag("--latitudes", flags.latitudes, 2, 1801);
   const phases = integerFlag("--phases", flags.phases, 1, 100_000);
+  const [{ insolationMap }, { insolationCsv }, { loadScenario, writeFileAtomic }] = await Promise.all([
+    import("../../analysis/insolationMap.js"),
+    import("../../report/compareReport.js"),
+    import("../io.js"),
+  ]);
   const { resolved } = loadScenario(scenarioPath);
   const csv = insolationCsv(resolved, insolationMap(resolved.thermal, latitudes, phases));
   if (flags.out !== undefined) {
     writeFileAtomic(flags.out, csv);
-    process.stdout.write(`insolation map written to ${flags.out} (${latitudes} latitudes × ${phases} phases)\n`);
+    out(`insolation map written to ${flags.out} (${latitudes} latitudes × ${phases} phases)\n`);
   } else {
-    process.stdout.write(csv);
+    out(csv);
   }
 }
 

@@ -1,14 +1,9 @@
 /** `calorbit run`: one scenario to its periodic steady state (or a transient), as text, JSON, CSV, SVG. */
 import type { Command } from "commander";
-import { seriesCsv } from "../../report/csv.js";
-import { resultDocument } from "../../report/document.js";
-import { columnCsv, columnDocument, columnText } from "../../report/columnReport.js";
-import { temperatureSvg } from "../../report/svg.js";
-import { summaryText } from "../../report/text.js";
-import { columnToleranceFor, simulateColumn } from "../../simulateColumn.js";
-import { DEFAULT_RELATIVE_TOLERANCE, DEFAULT_SAMPLES, INTEGRATORS, simulate, type SimulateOptions } from "../../simulate.js";
+import { DEFAULT_RELATIVE_TOLERANCE, DEFAULT_SAMPLES, INTEGRATORS } from "../../defaults.js";
+import type { SimulateOptions } from "../../simulate.js";
 import { integerFlag, integratorFlag, quantityFlag, toleranceFlag, usage } from "../flags.js";
-import { loadScenario, writeFileAtomic } from "../io.js";
+import { out } from "../output.js";
 
 interface RunFlags {
   integrator?: string;
@@ -22,7 +17,7 @@ interface RunFlags {
   tolerance: string;
 }
 
-function runCommand(scenarioPath: string | undefined, flags: RunFlags): void {
+async function runCommand(scenarioPath: string | undefined, flags: RunFlags): Promise<void> {
   const options: SimulateOptions = {
     relativeTolerance: toleranceFlag(flags.tolerance),
     samples: integerFlag("--samples", flags.samples, 2, 10_000_000),
@@ -37,6 +32,18 @@ function runCommand(scenarioPath: string | undefined, flags: RunFlags): void {
     };
     if (!(options.transient.startK > 0)) throw usage("--from", JSON.stringify(flags.from), "a temperature > 0 K");
   }
+  // Loaded here, not at start-up: the scenario reader, the solvers and the writers.
+  const [{ loadScenario, writeFileAtomic }, { simulate }, { columnToleranceFor, simulateColumn }, { seriesCsv }, { resultDocument }, { columnCsv, columnDocument, columnText }, { temperatureSvg }, { summaryText }] =
+    await Promise.all([
+      import("../io.js"),
+      import("../../simulate.js"),
+      import("../../simulateColumn.js"),
+      import("../../report/csv.js"),
+      import("../../report/document.js"),
+      import("../../report/columnReport.js"),
+      import("../../report/svg.js"),
+      import("../../report/text.js"),
+    ]);
   const { resolved } = loadScenario(scenarioPath);
   if (resolved.thermal.column) {
     if (options.transient) throw usage("--from", JSON.stringify(flags.from ?? ""), "no transient mode for a conduction column yet (it runs to its periodic state)");
@@ -44,19 +51,19 @@ function runCommand(scenarioPath: string | undefined, flags: RunFlags): void {
     const columnTolerance = columnToleranceFor(options.relativeTolerance!, DEFAULT_RELATIVE_TOLERANCE);
     const col = simulateColumn(resolved.thermal, resolved.thermal.column, { relativeTolerance: columnTolerance, samples: options.samples ?? 1000 });
     if (flags.csv !== undefined) writeFileAtomic(flags.csv, columnCsv(resolved, col));
-    if (flags.json) process.stdout.write(JSON.stringify(columnDocument(resolved, col, flags.series === true), null, 2) + "\n");
-    else process.stdout.write(columnText(resolved, col));
+    if (flags.json) out(JSON.stringify(columnDocument(resolved, col, flags.series === true), null, 2) + "\n");
+    else out(columnText(resolved, col));
     return;
   }
   const sim = simulate(resolved.thermal, options);
   if (flags.csv !== undefined) writeFileAtomic(flags.csv, seriesCsv(resolved, sim));
   if (flags.svg !== undefined) writeFileAtomic(flags.svg, temperatureSvg(resolved.thermal.name, sim.series, sim.summary));
   if (flags.json) {
-    process.stdout.write(JSON.stringify(resultDocument(resolved, sim, flags.series === true), null, 2) + "\n");
+    out(JSON.stringify(resultDocument(resolved, sim, flags.series === true), null, 2) + "\n");
   } else {
-    process.stdout.write(summaryText(resolved, sim));
-    if (flags.csv !== undefined) process.stdout.write(`\nseries written to ${flags.csv} (${sim.series.timeSeconds.length} rows)\n`);
-    if (flags.svg !== undefined) process.stdout.write(`chart written to ${flags.svg}\n`);
+    out(summaryText(resolved, sim));
+    if (flags.csv !== undefined) out(`\nseries written to ${flags.csv} (${sim.series.timeSeconds.length} rows)\n`);
+    if (flags.svg !== undefined) out(`chart written to ${flags.svg}\n`);
   }
 }
 

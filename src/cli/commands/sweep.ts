@@ -3,13 +3,10 @@
  * the cluster helper owns this file and the sweep runner behind it).
  */
 import type { Command } from "commander";
-import { DEFAULT_RELATIVE_TOLERANCE } from "../../simulate.js";
-import { caseCount, parseShard } from "../../sweep/design.js";
+import { DEFAULT_RELATIVE_TOLERANCE } from "../../defaults.js";
 import type { SweepDefinition } from "../../sweep/runCase.js";
-import { parseAxis } from "../../sweep/spec.js";
 import { integerFlag, toleranceFlag, usage } from "../flags.js";
-import { loadScenarioDocument } from "../io.js";
-import { defaultWorkers, mergeShards, runSweep } from "../sweep.js";
+import { err, out } from "../output.js";
 
 interface SweepFlags {
   vary?: string[];
@@ -23,16 +20,25 @@ interface SweepFlags {
   tolerance: string;
 }
 
-function definitionTotal(definitionJson: string): number {
+/** The number of cases a shard file's definition line describes (sweep modules passed in: they load lazily). */
+function definitionTotalWith(caseCount: typeof import("../../sweep/design.js").caseCount, parseAxis: typeof import("../../sweep/spec.js").parseAxis, definitionJson: string): number {
   const d = JSON.parse(definitionJson) as { axes: { path: string; spec: string }[]; random: { count: number; seed: number } | null };
   return caseCount({ axes: d.axes.map((a) => parseAxis(`${a.path}=${a.spec}`)), ...(d.random ? { random: d.random } : {}) });
 }
 
 async function sweepCommand(args: string[], flags: SweepFlags): Promise<void> {
+  // The sweep runner (worker threads, progress bar) and the scenario reader load only when a sweep runs.
+  const [{ caseCount, parseShard }, { parseAxis }, { loadScenarioDocument }, { defaultWorkers, mergeShards, runSweep }] = await Promise.all([
+    import("../../sweep/design.js"),
+    import("../../sweep/spec.js"),
+    import("../io.js"),
+    import("../sweep.js"),
+  ]);
+  const definitionTotal = (definitionJson: string) => definitionTotalWith(caseCount, parseAxis, definitionJson);
   if (args[0] === "merge") {
     if (flags.out === undefined) throw usage("--out", "missing", "the merged file to write, e.g. --out all.csv");
     const { cases } = mergeShards(args.slice(1), flags.out, definitionTotal);
-    process.stdout.write(`merged ${args.length - 1} shard files: ${cases} cases, each once, into ${flags.out}\n`);
+    out(`merged ${args.length - 1} shard files: ${cases} cases, each once, into ${flags.out}\n`);
     return;
   }
   if (args.length > 1) {
@@ -56,7 +62,7 @@ async function sweepCommand(args: string[], flags: SweepFlags): Promise<void> {
   const shard = parseShard(flags.shard);
   const result = await runSweep({ definition, shard, workers, quiet: flags.quiet === true, ...(flags.out !== undefined ? { out: flags.out } : {}) });
   if (flags.out !== undefined && !flags.quiet) {
-    process.stderr.write(`${flags.out}: ${result.written} cases written${result.skipped ? `, ${result.skipped} already there (resumed)` : ""}\n`);
+    err(`${flags.out}: ${result.written} cases written${result.skipped ? `, ${result.skipped} already there (resumed)` : ""}\n`);
   }
 }
 

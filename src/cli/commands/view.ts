@@ -2,14 +2,9 @@
 import type { Command } from "commander";
 import { readFileSync } from "node:fs";
 import { CalorbitError } from "../../errors.js";
-import { columnDocument } from "../../report/columnReport.js";
-import { resultDocument } from "../../report/document.js";
-import { simulateColumn } from "../../simulateColumn.js";
-import { simulate } from "../../simulate.js";
-import { parseSweepText } from "../../view/sweepData.js";
+import type { simulateColumn } from "../../simulateColumn.js";
 import { integerFlag, usage } from "../flags.js";
-import { loadScenario } from "../io.js";
-import { startViewServer } from "../viewServer.js";
+import { out } from "../output.js";
 
 interface ViewFlags {
   port: string;
@@ -17,6 +12,16 @@ interface ViewFlags {
 
 async function viewCommand(path: string | undefined, flags: ViewFlags): Promise<void> {
   const port = integerFlag("--port", flags.port, 0, 65535);
+  // The engine, the writers and the HTTP server load only when the viewer starts.
+  const [{ columnDocument }, { resultDocument }, { simulateColumn }, { simulate }, { parseSweepText }, { loadScenario }, { startViewServer }] = await Promise.all([
+    import("../../report/columnReport.js"),
+    import("../../report/document.js"),
+    import("../../simulateColumn.js"),
+    import("../../simulate.js"),
+    import("../../view/sweepData.js"),
+    import("../io.js"),
+    import("../viewServer.js"),
+  ]);
   let resultJson: string;
   if (path !== undefined && isSweepFile(path)) {
     resultJson = JSON.stringify({ kind: "sweep", file: path, table: parseSweepText(readFileSync(path, "utf8")) });
@@ -32,10 +37,10 @@ async function viewCommand(path: string | undefined, flags: ViewFlags): Promise<
     }
   }
   const viewer = await startViewServer(resultJson, port);
-  process.stdout.write(`calorbit viewer at ${viewer.url}  (Ctrl-C stops it)\n`);
+  out(`calorbit viewer at ${viewer.url}  (Ctrl-C stops it)\n`);
   await new Promise<void>((resolve) => {
     const stop = () => {
-      process.stdout.write("stopping the viewer\n");
+      out("stopping the viewer\n");
       void viewer.close().then(resolve);
       // Keep-alive connections from a browser would hold close() open; do not wait for them.
       viewer.server.closeAllConnections();

@@ -1,0 +1,45 @@
+/**
+ * Where the CLI's text goes. Commands write through `out` (data and reports, stdout) and `err`
+ * (messages, stderr), never to `process.stdout` directly, so that `main` can run the whole program
+ * in-process with captured streams (the tests do) and so that warnings never mix into data.
+ */
+
+export interface OutputStreams {
+  /** Data and reports (stdout). */
+  out(text: string): void;
+  /** Errors, warnings and progress (stderr). */
+  err(text: string): void;
+}
+
+export const processStreams: OutputStreams = {
+  out: (text) => void process.stdout.write(text),
+  err: (text) => void process.stderr.write(text),
+};
+
+let current: OutputStreams = processStreams;
+
+/** Writes data or a report to the current stdout. */
+export function out(text: string): void {
+  current.out(text);
+}
+
+/** Writes a message to the current stderr. */
+export function err(text: string): void {
+  current.err(text);
+}
+
+/** One warning line on stderr: `calorbit: warning: …`. */
+export function warn(message: string): void {
+  current.err(`calorbit: warning: ${message}\n`);
+}
+
+/** Runs `body` with `streams` as the current output, restoring the previous ones afterwards. */
+export async function withStreams<T>(streams: OutputStreams, body: () => Promise<T>): Promise<T> {
+  const previous = current;
+  current = streams;
+  try {
+    return await body();
+  } finally {
+    current = previous;
+  }
+}
