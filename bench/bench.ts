@@ -11,10 +11,10 @@
 import { spawnSync } from "node:child_process";
 import { fileURLToPath } from "node:url";
 import { ASTRONOMICAL_UNIT_M, SOLAR_LUMINOSITY_W, SOLAR_MASS_KG, STEFAN_BOLTZMANN } from "../src/constants.js";
-import type { ThermalCase } from "../src/model.js";
+import type { ThermalCase } from "../src/model/thermalCase.js";
 import { equilibriumTemperature, GEOMETRY_FACTOR, orbitMeanStellarFlux } from "../src/physics/flux.js";
-import { simulate } from "../src/simulate.js";
-import { simulateColumn } from "../src/simulateColumn.js";
+import { simulate } from "../src/run/simulate.js";
+import { simulateColumn } from "../src/run/simulateColumn.js";
 import { DEFAULT_GRID } from "../src/physics/column.js";
 
 const PERIOD_S = 3.15576e7;

@@ -4,7 +4,7 @@
  */
 export * from "./constants.js";
 export { CalorbitError, formatProblem, type ErrorCode, type FieldProblem } from "./errors.js";
-export type { ThermalCase, Regime } from "./model.js";
+export type { ThermalCase, Regime } from "./model/thermalCase.js";
 export * from "./physics/kepler.js";
 export * from "./physics/orbit.js";
 export * from "./physics/star.js";
@@ -14,7 +14,7 @@ export * from "./physics/materials.js";
 export * from "./physics/energyBalance.js";
 export { solvePeriodic, integrateCycle, type PeriodicProblem, type PeriodicResult, type IntegratorName } from "./solve/periodic.js";
 export type { OdeSystem, SolverWork } from "./solve/system.js";
-export { simulate, DEFAULT_RELATIVE_TOLERANCE, DEFAULT_SAMPLES, type Simulation, type Series, type SimulateOptions, type SolverReport } from "./simulate.js";
+export { simulate, DEFAULT_RELATIVE_TOLERANCE, DEFAULT_SAMPLES, type Simulation, type Series, type SimulateOptions, type SolverReport } from "./run/simulate.js";
 export type { CycleSummary, TemperatureStats } from "./analysis/summarise.js";
 export { resolveScenario, type ResolvedScenario } from "./scenario/resolve.js";
 export { parseScenarioText } from "./scenario/text.js";

@@ -2,7 +2,7 @@ import { XMLParser, XMLValidator } from "fast-xml-parser";
 import { describe, expect, it } from "vitest";
 import { DAY_S } from "../src/constants.js";
 import { temperatureSvg, niceTicks } from "../src/report/svg.js";
-import { simulate } from "../src/simulate.js";
+import { simulate } from "../src/run/simulate.js";
 import { chartColumns, chartMarkers } from "../src/view/chartData.js";
 import { levels, parseSweepText } from "../src/view/sweepData.js";
 import { nominalCase } from "./helpers.js";

@@ -14,7 +14,7 @@ import type { ClimateSettings } from "../src/physics/climateSettings.js";
 import { stellarFlux } from "../src/physics/flux.js";
 import { dailyMeanInsolation } from "../src/physics/geometry.js";
 import { simulateZonal, type ZonalCase } from "../src/run/zonal.js";
-import { simulate } from "../src/simulate.js";
+import { simulate } from "../src/run/simulate.js";
 import { solveZonalPeriodic } from "../src/solve/zonalPeriodic.js";
 import { ZonalStepper } from "../src/solve/zonalStepper.js";
 import { nominalCase } from "./helpers.js";

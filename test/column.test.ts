@@ -2,8 +2,8 @@ import { describe, expect, it } from "vitest";
 import { STEFAN_BOLTZMANN } from "../src/constants.js";
 import { buildColumnGrid, DEFAULT_GRID, skinDepthM, type ColumnProperties } from "../src/physics/column.js";
 import { solveColumnPeriodic, type ColumnProblem } from "../src/solve/columnSolver.js";
-import { simulate } from "../src/simulate.js";
-import { simulateColumn } from "../src/simulateColumn.js";
+import { simulate } from "../src/run/simulate.js";
+import { simulateColumn } from "../src/run/simulateColumn.js";
 import { nominalCase } from "./helpers.js";
 
 const homogeneous = (k: number, rho: number, c: number): ColumnProperties => ({

@@ -6,7 +6,7 @@ import { equilibriumTemperature, GEOMETRY_FACTOR, stellarFlux } from "../src/phy
 import { lumpedForcing, type Forcing } from "../src/physics/forcing.js";
 import type { Orbit } from "../src/physics/orbit.js";
 import { integrateCycle } from "../src/solve/periodic.js";
-import { simulate } from "../src/simulate.js";
+import { simulate } from "../src/run/simulate.js";
 import { nominalCase } from "./helpers.js";
 
 const noSunlight: Forcing = { absorbedAt: () => 0, meanAbsorbedWPerM2: 0 };

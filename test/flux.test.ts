@@ -3,7 +3,7 @@ import { ASTRONOMICAL_UNIT_M, SOLAR_EFFECTIVE_TEMPERATURE_K, SOLAR_LUMINOSITY_W,
 import { equilibriumTemperature, GEOMETRY_FACTOR, orbitMeanStellarFlux, stellarFlux, wienPeakWavelengthM } from "../src/physics/flux.js";
 import { layerHeatCapacity, MATERIALS } from "../src/physics/materials.js";
 import { luminosityFromRadiusTemperature } from "../src/physics/star.js";
-import { simulate } from "../src/simulate.js";
+import { simulate } from "../src/run/simulate.js";
 import { nominalCase } from "./helpers.js";
 
 describe("stellar flux and equilibrium temperature", () => {

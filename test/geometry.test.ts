@@ -1,11 +1,11 @@
 import { describe, expect, it } from "vitest";
 import { ASTRONOMICAL_UNIT_M, SOLAR_LUMINOSITY_W, STEFAN_BOLTZMANN } from "../src/constants.js";
-import type { ThermalCase } from "../src/model.js";
+import type { ThermalCase } from "../src/model/thermalCase.js";
 import { DayNightBalance } from "../src/physics/dayNight.js";
 import { equilibriumTemperature, stellarFlux } from "../src/physics/flux.js";
 import { dailyMeanInsolation, solarDaySeconds, substellarLongitude } from "../src/physics/geometry.js";
 import { trueAnomalyFromEccentric, eccentricAnomaly } from "../src/physics/kepler.js";
-import { simulate } from "../src/simulate.js";
+import { simulate } from "../src/run/simulate.js";
 import { nominalCase } from "./helpers.js";
 
 const deg = Math.PI / 180;

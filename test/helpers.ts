@@ -1,6 +1,6 @@
 /** Shared builders for engine tests: real-world check values live in the tests themselves. */
 import { ASTRONOMICAL_UNIT_M, SOLAR_LUMINOSITY_W, SOLAR_MASS_KG } from "../src/constants.js";
-import type { ThermalCase } from "../src/model.js";
+import type { ThermalCase } from "../src/model/thermalCase.js";
 
 /** A case around a star with the IAU 2015 nominal solar luminosity and mass. */
 export function nominalCase(overrides: {

@@ -4,9 +4,9 @@
  */
 import uPlot from "uplot";
 import { ASTRONOMICAL_UNIT_M, DAY_S } from "../src/constants.js";
-import type { Regime, ThermalCase } from "../src/model.js";
+import type { Regime, ThermalCase } from "../src/model/thermalCase.js";
 import { thermalCaseFromRecord, type ResultDocument } from "../src/report/document.js";
-import { simulate, type Simulation } from "../src/simulate.js";
+import { simulate, type Simulation } from "../src/run/simulate.js";
 import { chartColumns, chartMarkers, type XAxis } from "../src/view/chartData.js";
 import { CHART_COLOURS, REGIME_COLOURS } from "../src/view/palette.js";
 import { $, download, expose, fmt, setText } from "./dom.js";

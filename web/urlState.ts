@@ -3,7 +3,7 @@
  * axis and the overlay, so a link shares the view.
  */
 import { ASTRONOMICAL_UNIT_M } from "../src/constants.js";
-import type { Regime, ThermalCase } from "../src/model.js";
+import type { Regime, ThermalCase } from "../src/model/thermalCase.js";
 import type { XAxis } from "../src/view/chartData.js";
 
 export interface ViewState {

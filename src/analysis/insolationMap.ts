@@ -3,7 +3,7 @@
  * latitude × orbital-phase grid, for the scenario's orbit and spin axis. Orbital phase is the
  * fraction of the orbit since periastron (mean anomaly / 2π), so columns are equal steps in time.
  */
-import type { ThermalCase } from "../model.js";
+import type { ThermalCase } from "../model/thermalCase.js";
 import { stellarFlux } from "../physics/flux.js";
 import { dailyMeanInsolation, stellarDeclination } from "../physics/geometry.js";
 import { eccentricAnomaly, trueAnomalyFromEccentric } from "../physics/kepler.js";

@@ -6,7 +6,7 @@
  */
 import { wienPeakWavelengthM } from "../physics/flux.js";
 import { firstPeriastronSeconds, timeAtEccentric, type Orbit } from "../physics/orbit.js";
-import type { ThermalModel } from "../thermalModel.js";
+import type { ThermalModel } from "../model/build.js";
 import { explicitTimeMean, hermiteExtremum, positiveModulo, refinedExtremum, timeInWindow, timeMean } from "./cycleStatistics.js";
 
 export interface TemperatureStats {

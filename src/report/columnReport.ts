@@ -1,6 +1,6 @@
 /** Reports of a conduction-column run: readable text, the JSON document, and the CSV series. */
 import type { ResolvedScenario } from "../scenario/resolve.js";
-import type { ColumnSimulation } from "../simulateColumn.js";
+import type { ColumnSimulation } from "../run/simulateColumn.js";
 import { VERSION } from "../version.js";
 import { resolvedScenarioRecord } from "./document.js";
 import { au, duration, fixed, sig } from "./format.js";

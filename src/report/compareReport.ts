@@ -1,7 +1,7 @@
 /** Reports of `calorbit compare` (table, JSON, CSV) and `calorbit insolation` (CSV map). */
 import type { InsolationMap } from "../analysis/insolationMap.js";
 import type { StateSummary } from "../analysis/summarise.js";
-import type { Comparison } from "../compare.js";
+import type { Comparison } from "../run/compare.js";
 import type { ResolvedScenario } from "../scenario/resolve.js";
 import { VERSION } from "../version.js";
 import { resolvedScenarioRecord } from "./document.js";

@@ -3,7 +3,7 @@
  * (SI, as JSON), then one header row whose names carry their units.
  */
 import type { ResolvedScenario } from "../scenario/resolve.js";
-import type { Simulation } from "../simulate.js";
+import type { Simulation } from "../run/simulate.js";
 import { VERSION } from "../version.js";
 import { resolvedScenarioRecord } from "./document.js";
 import { au, degrees } from "./format.js";

@@ -3,9 +3,9 @@
  * the resolved scenario in SI units) and what came out (summary, solver work, optional series).
  */
 import { CalorbitError } from "../errors.js";
-import type { ThermalCase } from "../model.js";
+import type { ThermalCase } from "../model/thermalCase.js";
 import type { ResolvedScenario } from "../scenario/resolve.js";
-import type { Simulation } from "../simulate.js";
+import type { Simulation } from "../run/simulate.js";
 import { VERSION } from "../version.js";
 
 /** The resolved scenario in SI units, with the unit in every key. */

@@ -1,8 +1,8 @@
 /** The readable summary printed by `calorbit run` and `calorbit check`, units everywhere. */
-import type { Regime } from "../model.js";
+import type { Regime } from "../model/thermalCase.js";
 import type { ResolvedScenario } from "../scenario/resolve.js";
 import type { TemperatureStats } from "../analysis/summarise.js";
-import type { Simulation } from "../simulate.js";
+import type { Simulation } from "../run/simulate.js";
 import { VERSION } from "../version.js";
 import { au, days, degrees, duration, fixed, sig, solarLuminosities, solarMasses } from "./format.js";
 

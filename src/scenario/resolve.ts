@@ -4,7 +4,7 @@
  */
 import type { z } from "zod";
 import { CalorbitError, type FieldProblem } from "../errors.js";
-import type { ThermalCase } from "../model.js";
+import type { ThermalCase } from "../model/thermalCase.js";
 import { DEFAULT_GRID } from "../physics/column.js";
 import { layerHeatCapacity, MATERIALS, type MaterialName } from "../physics/materials.js";
 import { keplerPeriodSeconds } from "../physics/orbit.js";

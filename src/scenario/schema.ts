@@ -4,7 +4,7 @@
  * Every object is strict (unknown keys are errors) and every message says what is allowed.
  */
 import { z } from "zod";
-import { REGIMES } from "../model.js";
+import { REGIMES } from "../model/thermalCase.js";
 import { DAYSIDE_WEIGHTINGS } from "../physics/dayNight.js";
 import { MATERIAL_NAMES } from "../physics/materials.js";
 import { parseQuantity, UNIT_TABLES, type QuantityKind } from "./units.js";

@@ -5,9 +5,9 @@
  */
 import { CalorbitError, formatProblem } from "../errors.js";
 import { resolveScenario } from "../scenario/resolve.js";
-import { DEFAULT_RELATIVE_TOLERANCE, simulate } from "../simulate.js";
-import { columnToleranceFor, simulateColumn } from "../simulateColumn.js";
-import type { ThermalCase } from "../model.js";
+import { DEFAULT_RELATIVE_TOLERANCE, simulate } from "../run/simulate.js";
+import { columnToleranceFor, simulateColumn } from "../run/simulateColumn.js";
+import type { ThermalCase } from "../model/thermalCase.js";
 import type { TemperatureStats } from "../analysis/summarise.js";
 import { VERSION } from "../version.js";
 import type { CaseValues, Design, Shard } from "./design.js";

@@ -7,7 +7,7 @@ async function checkCommand(scenarioPath: string): Promise<void> {
     import("../../physics/column.js"),
     import("../../report/format.js"),
     import("../../report/text.js"),
-    import("../../thermalModel.js"),
+    import("../../model/build.js"),
     import("../io.js"),
   ]);
   const { resolved, file } = loadScenario(scenarioPath);

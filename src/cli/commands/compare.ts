@@ -1,7 +1,7 @@
 /** `calorbit compare`: one scenario under several regimes, side by side. */
 import type { Command } from "commander";
 import { DEFAULT_RELATIVE_TOLERANCE, DEFAULT_SAMPLES } from "../../defaults.js";
-import { REGIMES, type Regime } from "../../model.js";
+import { REGIMES, type Regime } from "../../model/thermalCase.js";
 import { integerFlag, toleranceFlag, usage } from "../flags.js";
 import { out } from "../output.js";
 
@@ -23,7 +23,7 @@ async function compareCommand(scenarioPath: string | undefined, flags: CompareFl
   const relativeTolerance = toleranceFlag(flags.tolerance);
   const [{ loadScenario, writeFileAtomic }, { compareRegimes }, { compareCsv, compareDocument, compareTable }] = await Promise.all([
     import("../io.js"),
-    import("../../compare.js"),
+    import("../../run/compare.js"),
     import("../../report/compareReport.js"),
   ]);
   const { resolved } = loadScenario(scenarioPath);

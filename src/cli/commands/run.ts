@@ -1,7 +1,7 @@
 /** `calorbit run`: one scenario to its periodic steady state (or a transient), as text, JSON, CSV, SVG. */
 import type { Command } from "commander";
 import { DEFAULT_RELATIVE_TOLERANCE, DEFAULT_SAMPLES, INTEGRATORS } from "../../defaults.js";
-import type { SimulateOptions } from "../../simulate.js";
+import type { SimulateOptions } from "../../run/simulate.js";
 import { integerFlag, integratorFlag, quantityFlag, toleranceFlag, usage } from "../flags.js";
 import { out } from "../output.js";
 
@@ -36,8 +36,8 @@ async function runCommand(scenarioPath: string | undefined, flags: RunFlags): Pr
   const [{ loadScenario, writeFileAtomic }, { simulate }, { columnToleranceFor, simulateColumn }, { seriesCsv }, { resultDocument }, { columnCsv, columnDocument, columnText }, { temperatureSvg }, { summaryText }] =
     await Promise.all([
       import("../io.js"),
-      import("../../simulate.js"),
-      import("../../simulateColumn.js"),
+      import("../../run/simulate.js"),
+      import("../../run/simulateColumn.js"),
       import("../../report/csv.js"),
       import("../../report/document.js"),
       import("../../report/columnReport.js"),

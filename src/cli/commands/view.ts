@@ -2,7 +2,7 @@
 import type { Command } from "commander";
 import { readFileSync } from "node:fs";
 import { CalorbitError } from "../../errors.js";
-import type { simulateColumn } from "../../simulateColumn.js";
+import type { simulateColumn } from "../../run/simulateColumn.js";
 import { integerFlag, usage } from "../flags.js";
 import { out } from "../output.js";
 
@@ -16,8 +16,8 @@ async function viewCommand(path: string | undefined, flags: ViewFlags): Promise<
   const [{ columnDocument }, { resultDocument }, { simulateColumn }, { simulate }, { parseSweepText }, { loadScenario }, { startViewServer }] = await Promise.all([
     import("../../report/columnReport.js"),
     import("../../report/document.js"),
-    import("../../simulateColumn.js"),
-    import("../../simulate.js"),
+    import("../../run/simulateColumn.js"),
+    import("../../run/simulate.js"),
     import("../../view/sweepData.js"),
     import("../io.js"),
     import("../viewServer.js"),

@@ -3,16 +3,16 @@
  * the absorbed flux and instantaneous equilibrium of each state, the forcing cycle (one orbit, or
  * q orbits for a p:q spin–orbit resonance), the stiffness and the resolution the statistics need.
  */
-import { STEFAN_BOLTZMANN } from "./constants.js";
-import { requireNumber } from "./errors.js";
-import type { ThermalCase } from "./model.js";
-import { DAYSIDE_FACTOR, DayNightBalance } from "./physics/dayNight.js";
-import { LumpedBalance, radiativeTimeSeconds } from "./physics/energyBalance.js";
-import type { LumpedRegime } from "./physics/flux.js";
-import { bandForcing, lumpedForcing, orbitMeanByQuadrature, pointForcing, type Forcing } from "./physics/forcing.js";
-import { solarDaySeconds } from "./physics/geometry.js";
-import { checkOrbit, meanMotion } from "./physics/orbit.js";
-import type { OdeSystem } from "./solve/system.js";
+import { STEFAN_BOLTZMANN } from "../constants.js";
+import { requireNumber } from "../errors.js";
+import type { ThermalCase } from "./thermalCase.js";
+import { DAYSIDE_FACTOR, DayNightBalance } from "../physics/dayNight.js";
+import { LumpedBalance, radiativeTimeSeconds } from "../physics/energyBalance.js";
+import type { LumpedRegime } from "../physics/flux.js";
+import { bandForcing, lumpedForcing, orbitMeanByQuadrature, pointForcing, type Forcing } from "../physics/forcing.js";
+import { solarDaySeconds } from "../physics/geometry.js";
+import { checkOrbit, meanMotion } from "../physics/orbit.js";
+import type { OdeSystem } from "../solve/system.js";
 
 const TWO_PI = 2 * Math.PI;
 

@@ -3,10 +3,10 @@
  * cannot run for this scenario (a night side with no heat source, say) is reported with its
  * reason instead of stopping the others.
  */
-import { CalorbitError } from "./errors.js";
-import type { Regime, ThermalCase } from "./model.js";
+import { CalorbitError } from "../errors.js";
+import type { Regime, ThermalCase } from "../model/thermalCase.js";
 import { simulate, type Simulation, type SimulateOptions } from "./simulate.js";
-import { buildThermalModel, gcd } from "./thermalModel.js";
+import { buildThermalModel, gcd } from "../model/build.js";
 
 /** One state's temperature and equilibrium on the shared time axis. */
 export interface CompareColumn {

@@ -3,18 +3,18 @@
  * (absorbed flux at the surface) drives the column to its periodic steady state, and the result is
  * summarised like a lumped run, plus the depth profile and the skin depths. Pure computation.
  */
-import { CalorbitError, requireNumber } from "./errors.js";
-import type { ColumnSpec, ThermalCase } from "./model.js";
-import { buildColumnGrid, skinDepthM, specificHeatAt } from "./physics/column.js";
-import { STEFAN_BOLTZMANN } from "./constants.js";
-import { wienPeakWavelengthM } from "./physics/flux.js";
-import { eccentricAnomaly } from "./physics/kepler.js";
-import { anomaliesUniformInTime, orbitColumns } from "./analysis/orbitSampling.js";
-import { firstPeriastronSeconds, timeAtEccentric } from "./physics/orbit.js";
-import { solveColumnPeriodic } from "./solve/columnSolver.js";
-import { buildThermalModel } from "./thermalModel.js";
-import type { TemperatureStats } from "./analysis/summarise.js";
-import { positiveModulo } from "./analysis/cycleStatistics.js";
+import { CalorbitError, requireNumber } from "../errors.js";
+import type { ColumnSpec, ThermalCase } from "../model/thermalCase.js";
+import { buildColumnGrid, skinDepthM, specificHeatAt } from "../physics/column.js";
+import { STEFAN_BOLTZMANN } from "../constants.js";
+import { wienPeakWavelengthM } from "../physics/flux.js";
+import { eccentricAnomaly } from "../physics/kepler.js";
+import { anomaliesUniformInTime, orbitColumns } from "../analysis/orbitSampling.js";
+import { firstPeriastronSeconds, timeAtEccentric } from "../physics/orbit.js";
+import { solveColumnPeriodic } from "../solve/columnSolver.js";
+import { buildThermalModel } from "../model/build.js";
+import type { TemperatureStats } from "../analysis/summarise.js";
+import { positiveModulo } from "../analysis/cycleStatistics.js";
 
 const TWO_PI = 2 * Math.PI;
 /** A column's default tolerance on its periodicity and energy closure (its steps are second order). */

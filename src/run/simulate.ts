@@ -3,17 +3,17 @@
  * periodic steady state (or integrates a transient), samples the converged cycle and reduces it
  * to the summary numbers. Pure computation: no I/O.
  */
-import { cycleSummary, type CycleSummary } from "./analysis/summarise.js";
-import { timeMean } from "./analysis/cycleStatistics.js";
-import { anomaliesUniformInTime, orbitColumns } from "./analysis/orbitSampling.js";
-import { CalorbitError, requireNumber } from "./errors.js";
-import type { ThermalCase } from "./model.js";
-import { eccentricAnomaly } from "./physics/kepler.js";
-import { chooseIntegrator, integrateCycle, INTEGRATORS, plainOdeTolerance, solvePeriodic, type IntegratorName } from "./solve/periodic.js";
-import { addWork, emptyWork, type SolverWork } from "./solve/system.js";
-import { buildThermalModel, type ThermalModel } from "./thermalModel.js";
+import { cycleSummary, type CycleSummary } from "../analysis/summarise.js";
+import { timeMean } from "../analysis/cycleStatistics.js";
+import { anomaliesUniformInTime, orbitColumns } from "../analysis/orbitSampling.js";
+import { CalorbitError, requireNumber } from "../errors.js";
+import type { ThermalCase } from "../model/thermalCase.js";
+import { eccentricAnomaly } from "../physics/kepler.js";
+import { chooseIntegrator, integrateCycle, INTEGRATORS, plainOdeTolerance, solvePeriodic, type IntegratorName } from "../solve/periodic.js";
+import { addWork, emptyWork, type SolverWork } from "../solve/system.js";
+import { buildThermalModel, type ThermalModel } from "../model/build.js";
 
-import { DEFAULT_RELATIVE_TOLERANCE, DEFAULT_SAMPLES } from "./defaults.js";
+import { DEFAULT_RELATIVE_TOLERANCE, DEFAULT_SAMPLES } from "../defaults.js";
 
 export { DEFAULT_RELATIVE_TOLERANCE, DEFAULT_SAMPLES, INTEGRATORS, type IntegratorName };
 

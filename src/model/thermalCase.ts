@@ -2,12 +2,12 @@
  * A thermal case: everything the engine needs, validated and in SI units. The scenario module
  * builds it from a file; a script can build it directly. Nothing here knows about files.
  */
-import type { ColumnProperties, GridControls } from "./physics/column.js";
-import type { HeatExchange } from "./physics/dayNight.js";
-import type { SurfaceProperties } from "./physics/energyBalance.js";
-import { LUMPED_REGIMES } from "./physics/flux.js";
-import type { Orbit } from "./physics/orbit.js";
-import type { Star } from "./physics/star.js";
+import type { ColumnProperties, GridControls } from "../physics/column.js";
+import type { HeatExchange } from "../physics/dayNight.js";
+import type { SurfaceProperties } from "../physics/energyBalance.js";
+import { LUMPED_REGIMES } from "../physics/flux.js";
+import type { Orbit } from "../physics/orbit.js";
+import type { Star } from "../physics/star.js";
 
 /** Every regime calorbit integrates. */
 export const REGIMES = [...LUMPED_REGIMES, "daynight", "band", "point"] as const;
