@@ -1,6 +1,7 @@
 /** Shared builders for engine tests: real-world check values live in the tests themselves. */
 import { ASTRONOMICAL_UNIT_M, SOLAR_LUMINOSITY_W, SOLAR_MASS_KG } from "../src/constants.js";
 import type { ThermalCase } from "../src/model/thermalCase.js";
+import type { SurfaceProperties } from "../src/physics/energyBalance.js";
 
 /** A case around a star with the IAU 2015 nominal solar luminosity and mass. */
 export function nominalCase(overrides: {
@@ -14,7 +15,7 @@ export function nominalCase(overrides: {
   regime?: ThermalCase["regime"];
   meanAnomalyAtStartRad?: number;
   windowK?: readonly [number, number];
-}): ThermalCase {
+}): ThermalCase & { surface: SurfaceProperties } {
   return {
     name: "test case",
     star: { luminosityW: SOLAR_LUMINOSITY_W, massKg: SOLAR_MASS_KG },

@@ -2,6 +2,7 @@
  * The live view of a lumped result: it runs the same engine modules as the CLI in the page, so every
  * control change re-simulates and redraws locally, with no round trip to the server.
  */
+import { REGIMES } from "../src/model/regimes.js";
 import uPlot from "uplot";
 import { ASTRONOMICAL_UNIT_M, DAY_S } from "../src/constants.js";
 import type { Regime, ThermalCase } from "../src/model/thermalCase.js";
@@ -108,7 +109,7 @@ export function startLumped(doc: ResultDocument): void {
       series.push({ label: "T night (K)", stroke: CHART_COLOURS.night, width: 2.5 });
     }
     if (state.overlay) {
-      for (const regime of ["global", "dayside", "substellar", "daynight", "band", "point"] as const) {
+      for (const regime of REGIMES) {
         if (regime === state.regime) continue;
         try {
           const other = simulate({ ...thermal, regime }, { samples: SAMPLES });

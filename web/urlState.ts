@@ -2,6 +2,7 @@
  * The live view's state and its place in the URL: the address holds the parameters, the regime, the x
  * axis and the overlay, so a link shares the view.
  */
+import { slabHeatCapacity } from "../src/model/heatStore.js";
 import { ASTRONOMICAL_UNIT_M } from "../src/constants.js";
 import type { Regime, ThermalCase } from "../src/model/thermalCase.js";
 import type { XAxis } from "../src/view/chartData.js";
@@ -22,7 +23,7 @@ export function stateFromCase(c: ThermalCase): ViewState {
     e: c.orbit.eccentricity,
     albedo: c.surface.albedo,
     emissivity: c.surface.emissivity,
-    log10C: Math.log10(c.surface.heatCapacityJPerM2K),
+    log10C: Math.log10(slabHeatCapacity(c)),
     log10A: Math.log10(c.orbit.semiMajorAxisM / ASTRONOMICAL_UNIT_M),
     regime: c.regime,
     x: "time",

@@ -6,7 +6,7 @@
  */
 import { wienPeakWavelengthM } from "../physics/flux.js";
 import { firstPeriastronSeconds, timeAtEccentric, type Orbit } from "../physics/orbit.js";
-import type { ThermalModel } from "../model/build.js";
+import type { SlabModel } from "../model/build.js";
 import { explicitTimeMean, hermiteExtremum, positiveModulo, refinedExtremum, timeInWindow, timeMean } from "./cycleStatistics.js";
 
 export interface TemperatureStats {
@@ -51,13 +51,15 @@ export interface CycleSummary extends StateSummary {
   energyBalanceResidual: number;
   /** Mean solar day (point regime), s; null for a synchronous spin. */
   solarDaySeconds?: number | null;
+  /** A surface of several cells: each cell's statistics, in cell order (the top-level numbers are cell 0's; the energy fields the area-weighted whole). */
+  cells?: (StateSummary & { name: string; areaWeight: number })[];
   /** Day/night regime: the two hemispheres. */
   day?: StateSummary;
   night?: StateSummary;
 }
 
 export interface SummaryInput {
-  model: ThermalModel;
+  model: SlabModel;
   orbit: Orbit;
   windowK?: readonly [number, number];
   /** Uniform grid in E over the summarised cycle, both ends included. */
@@ -88,13 +90,14 @@ export function cycleSummary(input: SummaryInput): CycleSummary {
     }
   }
   const states: StateSummary[] = [];
+  // The whole surface: area-weighted means over its cells.
   let totalAbsorbed = 0;
   let totalEmitted = 0;
   for (let i = 0; i < n; i++) {
     const s = stateSummary(input, i, dtdE, derivatives, equilibria);
     states.push(s);
-    totalAbsorbed += s.meanAbsorbedWPerM2;
-    totalEmitted += s.meanEmittedWPerM2;
+    totalAbsorbed += model.areaWeights[i]! * s.meanAbsorbedWPerM2;
+    totalEmitted += model.areaWeights[i]! * s.meanEmittedWPerM2;
   }
   const cycleSeconds = timeAtEccentric(orbit, statsE[count - 1]!) - timeAtEccentric(orbit, statsE[0]!);
   const summary: CycleSummary = {
@@ -107,9 +110,9 @@ export function cycleSummary(input: SummaryInput): CycleSummary {
   };
   if (model.solarDaySeconds !== undefined) summary.solarDaySeconds = model.solarDaySeconds;
   if (n > 1) {
-    // The whole body: the mean over its states (equal areas).
-    summary.meanAbsorbedWPerM2 = totalAbsorbed / n;
-    summary.meanEmittedWPerM2 = totalEmitted / n;
+    summary.meanAbsorbedWPerM2 = totalAbsorbed;
+    summary.meanEmittedWPerM2 = totalEmitted;
+    summary.cells = states.map((s, i) => ({ name: model.stateNames[i]!, areaWeight: model.areaWeights[i]!, ...s }));
   }
   if (model.stateNames[0] === "day" && states.length === 2) {
     summary.day = states[0]!;

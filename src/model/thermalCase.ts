@@ -2,16 +2,21 @@
  * A thermal case: everything the engine needs, validated and in SI units. The scenario module
  * builds it from a file; a script can build it directly. Nothing here knows about files.
  */
-import type { ColumnProperties, GridControls } from "../physics/column.js";
 import type { HeatExchange } from "../physics/dayNight.js";
 import type { SurfaceProperties } from "../physics/energyBalance.js";
-import { LUMPED_REGIMES } from "../physics/flux.js";
 import type { Orbit } from "../physics/orbit.js";
 import type { Star } from "../physics/star.js";
+import type { ColumnSpec, HeatStore } from "./heatStore.js";
+import type { Regime } from "./regimes.js";
 
-/** Every regime calorbit integrates. */
-export const REGIMES = [...LUMPED_REGIMES, "daynight", "band", "point"] as const;
-export type Regime = (typeof REGIMES)[number];
+export { REGIMES, type Regime } from "./regimes.js";
+export type { ColumnSpec, HeatStore } from "./heatStore.js";
+
+/**
+ * The optical and internal-heat properties of the surface. `heatCapacityJPerM2K` is the shorthand
+ * for a slab heat store (`heatStore: { kind: "slab", ... }`); a column case has none.
+ */
+export type SurfaceOptics = Omit<SurfaceProperties, "heatCapacityJPerM2K"> & { heatCapacityJPerM2K?: number };
 
 export interface SpinSpec {
   /** Sidereal rotation rate Ω, rad s⁻¹ (> 0). */
@@ -35,8 +40,13 @@ export interface ThermalCase {
   name: string;
   star: Star;
   orbit: Orbit;
-  surface: SurfaceProperties;
+  surface: SurfaceOptics;
   regime: Regime;
+  /**
+   * What stores the heat under every cell (see `heatStore.ts`). Optional: without it the store is
+   * `column` when given, else a slab of `surface.heatCapacityJPerM2K`; read it through `heatStoreOf`.
+   */
+  heatStore?: HeatStore;
   /** Optional temperature window [low, high], K, for the time-in-range statistic. */
   windowK?: readonly [number, number];
   /** Spin (band: obliquity and axis; point: all of it). Default: synchronous, no obliquity. */
@@ -45,15 +55,6 @@ export interface ThermalCase {
   location?: SurfaceLocation;
   /** Day/night heat exchange (daynight regime). Default: no exchange, uniform dayside. */
   exchange?: HeatExchange;
-  /** A conduction column under the surface, in place of the lumped heat capacity. */
+  /** Shorthand for `heatStore: { kind: "column", column }`: a conduction column under the surface. */
   column?: ColumnSpec;
-}
-
-export interface ColumnSpec {
-  properties: ColumnProperties;
-  grid: GridControls;
-  /** Depths at which to report temperature series, m. */
-  outputDepthsM: readonly number[];
-  /** Heat flux into the bottom, W m⁻². */
-  interiorFluxWPerM2: number;
 }

@@ -3,6 +3,7 @@
  * the resolved scenario in SI units) and what came out (summary, solver work, optional series).
  */
 import { CalorbitError } from "../errors.js";
+import { heatStoreOf } from "../model/heatStore.js";
 import type { ThermalCase } from "../model/thermalCase.js";
 import type { ResolvedScenario } from "../scenario/resolve.js";
 import type { Simulation } from "../run/simulate.js";
@@ -11,6 +12,7 @@ import { VERSION } from "../version.js";
 /** The resolved scenario in SI units, with the unit in every key. */
 export function resolvedScenarioRecord(resolved: ResolvedScenario) {
   const { thermal } = resolved;
+  const store = heatStoreOf(thermal);
   return {
     name: thermal.name,
     star: {
@@ -29,7 +31,7 @@ export function resolvedScenarioRecord(resolved: ResolvedScenario) {
     body: {
       albedo: thermal.surface.albedo,
       emissivity: thermal.surface.emissivity,
-      heatCapacityJPerM2K: resolved.heatCapacityOrigin.kind === "column" ? null : thermal.surface.heatCapacityJPerM2K,
+      heatCapacityJPerM2K: store.kind === "slab" ? store.heatCapacityJPerM2K : null,
       heatCapacityOrigin: resolved.heatCapacityOrigin,
       internalFluxWPerM2: thermal.surface.internalFluxWPerM2,
     },

@@ -1,5 +1,6 @@
 /** The readable summary printed by `calorbit run` and `calorbit check`, units everywhere. */
-import type { Regime } from "../model/thermalCase.js";
+import { heatStoreOf } from "../model/heatStore.js";
+import { REGIME_TABLE } from "../model/regimes.js";
 import type { ResolvedScenario } from "../scenario/resolve.js";
 import type { TemperatureStats } from "../analysis/summarise.js";
 import type { Simulation } from "../run/simulate.js";
@@ -11,15 +12,6 @@ export const CAUTION = [
   "apply the margins of your organisation's thermal-control standard and verify with a qualified",
   "thermal model; nothing here replaces licensed engineering review.",
 ].join("\n");
-
-export const REGIME_WORDS: Readonly<Record<Regime, string>> = {
-  global: "f = 1/4: fast rotator, heat shared over the whole sphere",
-  dayside: "f = 1/2: locked dayside, no heat carried to the night side",
-  substellar: "f = 1: the point under the star",
-  daynight: "two hemispheres exchanging heat",
-  band: "daily-mean insolation at one latitude of a fast rotator",
-  point: "one place on a spinning surface, hour by hour",
-};
 
 /** The scenario as understood, in units a person reads. */
 export function describeScenario(resolved: ResolvedScenario): string[] {
@@ -38,39 +30,50 @@ export function describeScenario(resolved: ResolvedScenario): string[] {
   lines.push(
     `  orbit     a = ${sig(au(orbit.semiMajorAxisM), 4)} au, e = ${orbit.eccentricity}, P = ${sig(days(orbit.periodSeconds), 5)} d (${periodWhy}), ${start}`,
   );
-  if (thermal.column) {
-    const c = thermal.column;
-    const p = c.properties;
-    const heat = p.specificHeatPolynomial.length === 1 ? `c = ${sig(p.specificHeatPolynomial[0]!)} J kg⁻¹ K⁻¹` : "c(T) polynomial";
-    lines.push(
-      `  body      A = ${surface.albedo}, ε = ${surface.emissivity}; a conduction column, interior flux ${sig(c.interiorFluxWPerM2)} W m⁻²`,
-      `  column    ρ ${sig(p.densitySurface)} → ${sig(p.densityDeep)} kg m⁻³, k ${sig(p.conductivitySurface)} → ${sig(p.conductivityDeep)} W m⁻¹ K⁻¹${Number.isFinite(p.eFoldingDepthM) ? ` (e-folding ${sig(p.eFoldingDepthM)} m)` : ""}${p.radiativeChi ? `, χ = ${p.radiativeChi}` : ""}, ${heat}`,
-    );
-  } else {
-    const origin = resolved.heatCapacityOrigin;
-    const cText =
-      origin.kind === "layer"
-        ? ` (${origin.material}, ${sig(origin.thicknessM)} m: ρ = ${origin.densityKgPerM3} kg m⁻³, c = ${origin.specificHeatJPerKgK} J kg⁻¹ K⁻¹)`
-        : "";
-    lines.push(
-      `  body      A = ${surface.albedo}, ε = ${surface.emissivity}, C = ${sig(surface.heatCapacityJPerM2K)} J m⁻² K⁻¹${cText}, q = ${sig(surface.internalFluxWPerM2)} W m⁻²`,
-    );
+  const store = heatStoreOf(thermal);
+  switch (store.kind) {
+    case "column": {
+      const c = store.column;
+      const p = c.properties;
+      const heat = p.specificHeatPolynomial.length === 1 ? `c = ${sig(p.specificHeatPolynomial[0]!)} J kg⁻¹ K⁻¹` : "c(T) polynomial";
+      lines.push(
+        `  body      A = ${surface.albedo}, ε = ${surface.emissivity}; a conduction column, interior flux ${sig(c.interiorFluxWPerM2)} W m⁻²`,
+        `  column    ρ ${sig(p.densitySurface)} → ${sig(p.densityDeep)} kg m⁻³, k ${sig(p.conductivitySurface)} → ${sig(p.conductivityDeep)} W m⁻¹ K⁻¹${Number.isFinite(p.eFoldingDepthM) ? ` (e-folding ${sig(p.eFoldingDepthM)} m)` : ""}${p.radiativeChi ? `, χ = ${p.radiativeChi}` : ""}, ${heat}`,
+      );
+      break;
+    }
+    case "slab": {
+      const origin = resolved.heatCapacityOrigin;
+      const cText =
+        origin.kind === "layer"
+          ? ` (${origin.material}, ${sig(origin.thicknessM)} m: ρ = ${origin.densityKgPerM3} kg m⁻³, c = ${origin.specificHeatJPerKgK} J kg⁻¹ K⁻¹)`
+          : "";
+      lines.push(
+        `  body      A = ${surface.albedo}, ε = ${surface.emissivity}, C = ${sig(store.heatCapacityJPerM2K)} J m⁻² K⁻¹${cText}, q = ${sig(surface.internalFluxWPerM2)} W m⁻²`,
+      );
+      break;
+    }
   }
-  lines.push(`  regime    ${thermal.regime} (${REGIME_WORDS[thermal.regime]})`);
-  if (thermal.regime === "daynight") {
+  const entry = REGIME_TABLE[thermal.regime];
+  const reads = (field: (typeof entry.fields)[number]) => entry.fields.includes(field);
+  lines.push(`  regime    ${thermal.regime} (${entry.words})`);
+  if (reads("exchange")) {
     const ex = thermal.exchange ?? { recirculation: 0, coefficientWPerM2K: 0, weighting: "uniform" };
     const how = ex.coefficientWPerM2K > 0 ? `exchange coefficient k = ${sig(ex.coefficientWPerM2K)} W m⁻² K⁻¹` : `recirculation efficiency ${ex.recirculation}`;
     lines.push(`  exchange  ${how}; ${ex.weighting === "flux" ? "flux-weighted dayside (f = 2/3)" : "uniform dayside (f = 1/2)"}`);
   }
-  if (thermal.regime === "band" || thermal.regime === "point") {
-    const spin = thermal.spin;
-    const loc = thermal.location ?? { latitudeRad: 0, longitudeRad: 0 };
+  const spin = thermal.spin;
+  if (reads("spin.rate")) {
     const spinText = !spin
       ? "synchronous (1:1), obliquity 0°"
       : `${spin.ratio ? `${spin.ratio.spin}:${spin.ratio.orbit} spin–orbit` : `sidereal period ${duration((2 * Math.PI) / spin.rateRadPerSecond)}`}, obliquity ${sig(degrees(spin.obliquityRad))}°, equinox at true anomaly ${sig(degrees(spin.equinoxTrueAnomalyRad))}°`;
-    if (thermal.regime === "point") lines.push(`  spin      ${spinText}`);
-    else lines.push(`  axis      obliquity ${sig(degrees(spin?.obliquityRad ?? 0))}°, equinox at true anomaly ${sig(degrees(spin?.equinoxTrueAnomalyRad ?? 0))}°`);
-    lines.push(`  place     latitude ${sig(degrees(loc.latitudeRad))}°${thermal.regime === "point" ? `, longitude ${sig(degrees(loc.longitudeRad))}°` : ""}`);
+    lines.push(`  spin      ${spinText}`);
+  } else if (reads("spin.axis")) {
+    lines.push(`  axis      obliquity ${sig(degrees(spin?.obliquityRad ?? 0))}°, equinox at true anomaly ${sig(degrees(spin?.equinoxTrueAnomalyRad ?? 0))}°`);
+  }
+  if (reads("location.latitude")) {
+    const loc = thermal.location ?? { latitudeRad: 0, longitudeRad: 0 };
+    lines.push(`  place     latitude ${sig(degrees(loc.latitudeRad))}°${reads("location.longitude") ? `, longitude ${sig(degrees(loc.longitudeRad))}°` : ""}`);
   }
   if (thermal.windowK) lines.push(`  window    ${fixed(thermal.windowK[0], 2)} K to ${fixed(thermal.windowK[1], 2)} K`);
   return lines;

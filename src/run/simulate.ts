@@ -11,7 +11,8 @@ import type { ThermalCase } from "../model/thermalCase.js";
 import { eccentricAnomaly } from "../physics/kepler.js";
 import { chooseIntegrator, integrateCycle, INTEGRATORS, plainOdeTolerance, solvePeriodic, type IntegratorName } from "../solve/periodic.js";
 import { addWork, emptyWork, type SolverWork } from "../solve/system.js";
-import { buildThermalModel, type ThermalModel } from "../model/build.js";
+import { buildThermalModel, type SlabModel } from "../model/build.js";
+import { exchangeCarriesHeat } from "../model/exchange.js";
 
 import { DEFAULT_RELATIVE_TOLERANCE, DEFAULT_SAMPLES } from "../defaults.js";
 
@@ -91,12 +92,12 @@ export function simulate(thermal: ThermalCase, options: SimulateOptions = {}): S
       { path: "integrator", given: String(options.integrator), allowed: INTEGRATORS.join(", ") },
     ]);
   }
-  if (thermal.column) {
+  const model = buildThermalModel(thermal);
+  if (model.kind !== "slab") {
     throw new CalorbitError("INVALID_ARGUMENT", "this case has a conduction column", [
       { path: "body.column", given: "a conduction column", allowed: "calorbit run or sweep (the column solver); compare and the viewer's live controls take lumped surfaces" },
     ]);
   }
-  const model = buildThermalModel(thermal);
   const { orbit } = thermal;
   const n = model.system.dimension;
   if (options.transient) {
@@ -104,7 +105,7 @@ export function simulate(thermal: ThermalCase, options: SimulateOptions = {}): S
     requireNumber("orbits", options.transient.orbits, (k) => Number.isInteger(k) && k >= 1 && k <= 100_000, "an integer from 1 to 100,000");
   }
   const mode: SolverReport["mode"] = options.transient ? "transient" : model.commensurate ? "periodic" : "seasonal";
-  checkHeated(thermal, model, mode);
+  checkHeated(model, mode);
 
   const startE = eccentricAnomaly(orbit.meanAnomalyAtStartRad, orbit.eccentricity);
   const spanOrbits = mode === "transient" ? options.transient!.orbits : mode === "periodic" ? model.cycleOrbits : 1;
@@ -207,17 +208,16 @@ function report(
   };
 }
 
-/** A state with no heat source over the whole cycle cools toward 0 K: there is no periodic state to find. */
-function checkHeated(thermal: ThermalCase, model: ThermalModel, mode: SolverReport["mode"]): void {
-  if (mode === "transient" || model.internalFluxWPerM2 > 0) return;
-  if (thermal.regime === "daynight") {
-    const ex = thermal.exchange;
-    if (!ex || (ex.recirculation === 0 && ex.coefficientWPerM2K === 0)) {
-      throw new CalorbitError("INVALID_ARGUMENT", "daynight: the night side has no heat source", [
+/** A cell with no heat source over the whole cycle cools toward 0 K: there is no periodic state to find. */
+function checkHeated(model: SlabModel, mode: SolverReport["mode"]): void {
+  if (mode === "transient" || model.internalFluxWPerM2 > 0 || exchangeCarriesHeat(model.exchange)) return;
+  for (const cell of model.surface.cells) {
+    if (cell.forcing.meanAbsorbedWPerM2 > 0) continue;
+    if (model.surface.cells.length > 1) {
+      throw new CalorbitError("INVALID_ARGUMENT", `the ${cell.name} cell has no heat source`, [
         { path: "body", given: "no recirculation, exchange coefficient or internal flux", allowed: "body.recirculation > 0, body.exchangeCoefficient > 0 or body.internalFlux > 0" },
       ]);
     }
-  } else if (!(model.meanAbsorbedWPerM2 > 0)) {
     throw new CalorbitError("INVALID_ARGUMENT", "the surface never sees the star", [
       { path: "surface", given: "a point or band in permanent night", allowed: "a place that is lit during the cycle, or body.internalFlux > 0" },
     ]);
@@ -230,7 +230,7 @@ function checkHeated(thermal: ThermalCase, model: ThermalModel, mode: SolverRepo
  * (standard), the mean moved from ⟨T_eq⟩ toward the mean-flux equilibrium as memory grows.
  * Newton then has only the nonlinearity to remove: typically two or three cycles.
  */
-function guessStart(model: ThermalModel, thermal: ThermalCase): Float64Array {
+function guessStart(model: SlabModel, thermal: ThermalCase): Float64Array {
   const n = model.system.dimension;
   const e = thermal.orbit.eccentricity;
   const points = 64;
@@ -340,7 +340,7 @@ function makeGrids(
   };
 }
 
-function finish(thermal: ThermalCase, model: ThermalModel, grids: Grids, solver: SolverReport): Simulation {
+function finish(thermal: ThermalCase, model: SlabModel, grids: Grids, solver: SolverReport): Simulation {
   const { outputY, statsY } = grids.scatter();
   for (let k = 0; k < statsY.length; k++) {
     if (!(statsY[k]! > 0)) throw new CalorbitError("INTEGRATION_FAILED", "the temperature left the physical range (T ≤ 0 K)");
@@ -355,7 +355,7 @@ function finish(thermal: ThermalCase, model: ThermalModel, grids: Grids, solver:
   return { case: thermal, summary, series: buildSeries(thermal, model, grids.outputE, outputY), solver };
 }
 
-function buildSeries(thermal: ThermalCase, model: ThermalModel, outputE: Float64Array, outputY: Float64Array): Series {
+function buildSeries(thermal: ThermalCase, model: SlabModel, outputE: Float64Array, outputY: Float64Array): Series {
   const count = outputE.length;
   const n = model.system.dimension;
   const { orbit } = thermal;

@@ -2,6 +2,8 @@
  * calorbit's chart colours: the Okabe–Ito colour-blind-safe palette (Okabe & Ito 2008), one
  * definition for the SVG export and the browser viewer.
  */
+import { REGIMES, REGIME_TABLE, type Regime } from "../model/regimes.js";
+
 export const OKABE_ITO = {
   blue: "#0072B2",
   vermillion: "#D55E00",
@@ -23,15 +25,8 @@ export const CHART_COLOURS = {
   grey: "#555555",
 } as const;
 
-/** One colour per regime when several are drawn together. */
-export const REGIME_COLOURS: Readonly<Record<string, string>> = {
-  global: OKABE_ITO.blue,
-  dayside: OKABE_ITO.orange,
-  substellar: OKABE_ITO.vermillion,
-  daynight: OKABE_ITO.bluishGreen,
-  band: OKABE_ITO.reddishPurple,
-  point: OKABE_ITO.black,
-};
+/** One colour per regime when several are drawn together: from the regimes table. */
+export const REGIME_COLOURS: Readonly<Record<Regime, string>> = Object.fromEntries(REGIMES.map((r) => [r, REGIME_TABLE[r].colour])) as Record<Regime, string>;
 
 /** A cycle of distinct colours for families of curves. */
 export const SERIES_CYCLE = Object.values(OKABE_ITO);

@@ -13,17 +13,17 @@ async function checkCommand(scenarioPath: string): Promise<void> {
   const { resolved, file } = loadScenario(scenarioPath);
   const { thermal } = resolved;
   const model = buildThermalModel(thermal);
-  const tau = model.radiativeTimeSeconds;
   const lines = [
     `${file}: valid scenario "${thermal.name}"`,
     ...describeScenario(resolved),
     `  derived   period ${duration(thermal.orbit.periodSeconds)} (${sig(thermal.orbit.periodSeconds, 6)} s), equilibrium of the cycle-mean flux ${model.meanFluxEquilibriumK.toFixed(2)} K,`,
   ];
-  if (thermal.column) {
-    const p = thermal.column.properties;
+  if (model.kind === "column") {
+    const p = model.heatStore.column.properties;
     const c = specificHeatAt(p, model.meanFluxEquilibriumK);
     lines.push(`            conduction column: thermal inertia at the surface ${sig(Math.sqrt(p.conductivitySurface * p.densitySurface * c))} J m⁻² K⁻¹ s⁻½ (at ${model.meanFluxEquilibriumK.toFixed(0)} K)`);
   } else {
+    const tau = model.radiativeTimeSeconds;
     lines.push(`            radiative time τ = ${duration(tau)}, τ/P = ${sig(tau / thermal.orbit.periodSeconds)}`);
   }
   if (model.solarDaySeconds !== undefined) {
