@@ -11,6 +11,7 @@ export type ErrorCode =
   | "SCENARIO_INVALID" // a scenario failed validation; `problems` holds one entry per field
   | "SCENARIO_UNREADABLE" // a scenario file is missing or cannot be parsed
   | "SWEEP_WORKER_FAILED" // a sweep worker thread died (not a case failing: those become rows)
+  | "SWEEP_CASES_FAILED" // every case of a sweep failed (each is a row saying why)
   | "USAGE"; // a command-line flag is malformed
 
 /** One problem with one input field: where it is, what was given, what is allowed. */

@@ -5,12 +5,13 @@
  */
 import { closeSync, existsSync, fstatSync, ftruncateSync, openSync, readSync, renameSync, rmSync, writeSync } from "node:fs";
 import { cpus } from "node:os";
+import { resolve as resolvePath } from "node:path";
 import { StringDecoder } from "node:string_decoder";
 import { Worker } from "node:worker_threads";
 import cliProgress from "cli-progress";
 import { CalorbitError } from "../errors.js";
 import { caseCount, shardIds, shardSize, type Shard } from "../sweep/design.js";
-import { headerLines, lineCaseId, type SweepDefinition, type SweepFormat } from "../sweep/runCase.js";
+import { headerLines, JSONL_MARKER, lineCaseId, lineOk, readHeader, type Cell, type SweepDefinition } from "../sweep/runCase.js";
 
 const CHUNK = 32;
 /**
@@ -35,6 +36,38 @@ export interface SweepRun {
   out?: string;
   workers: number;
   quiet: boolean;
+}
+
+export interface SweepResult {
+  /** Cases run and written now. */
+  written: number;
+  /** Cases already in the file (a resumed run). */
+  skipped: number;
+  /** Failed cases among all of the shard's cases in the file (written now or before). */
+  failed: number;
+  /** The first failure's status, for the closing message. */
+  firstFailure: string | null;
+}
+
+/** What a worker sends back for one chunk: its rows as text (CSV, JSON Lines) or as cells (Parquet). */
+export interface ChunkResult {
+  chunk: number;
+  count: number;
+  failed: number;
+  firstFailure: string | null;
+  text?: string;
+  rows?: Cell[][];
+}
+
+/** Where a sweep's rows go, in case-id order. */
+export interface SweepSink {
+  /** Rows of this shard already there (resume). */
+  done: number;
+  /** Failed cases among them. */
+  failedBefore: number;
+  firstFailureBefore: string | null;
+  write(result: ChunkResult): void;
+  close(): void;
 }
 
 /**
@@ -92,31 +125,47 @@ function refuse(message: string, path: string, allowed: string): CalorbitError {
 }
 
 /**
- * Opens the output for appending: a new file gets the header; an existing one must carry the
- * same definition and shard, and its rows must be this shard's first cases in order. A torn last
- * line (a crash mid-write) is cut off. Returns the number of cases already done.
+ * Opens a text output (CSV, JSON Lines) for appending: a new file gets the header; an existing one
+ * must carry the same definition and shard, and its rows must be this shard's first cases in order. A
+ * torn last line (a crash mid-write) is cut off. Returns the sink, knowing the cases already done.
  */
-function openOutput(run: SweepRun): { fd: number; done: number } {
+function openTextOutput(run: SweepRun): SweepSink {
   const header = headerLines(run.definition, run.shard);
-  const path = run.out!;
+  const sinkOn = (fd: number, done: number, failedBefore: number, firstFailureBefore: string | null): SweepSink => ({
+    done,
+    failedBefore,
+    firstFailureBefore,
+    write: (r) => writeSync(fd, r.text!),
+    close: () => {
+      if (fd !== 1) closeSync(fd);
+    },
+  });
+  if (run.out === undefined) {
+    writeSync(1, header.join("\n") + "\n");
+    return sinkOn(1, 0, 0, null);
+  }
+  const path = run.out;
   if (!existsSync(path)) {
     const fd = openSync(path, "a");
     writeSync(fd, header.join("\n") + "\n");
-    return { fd, done: 0 };
+    return sinkOn(fd, 0, 0, null);
   }
   const fd = openSync(path, "r+");
   const total = caseCount(run.definition.design);
   const expected = shardIds(total, run.shard);
-  let headerIndex = 0;
+  const headerRead: string[] = [];
   let done = 0;
+  let failed = 0;
+  let firstFailure: string | null = null;
   let problem: string | null = null;
   const reader = new LineReader(fd, false);
   for (let line = reader.next(); line !== null && problem === null; line = reader.next()) {
-    if (headerIndex < header.length) {
-      if (line !== header[headerIndex]) {
-        problem = headerIndex === 1 || headerIndex === 2 ? "it was written by a different sweep definition or shard" : "its header is not a calorbit sweep header";
+    if (headerRead.length < header.length) {
+      headerRead.push(line);
+      if (line !== header[headerRead.length - 1]) {
+        const calorbit = headerRead[0]!.startsWith("# calorbit ") || headerRead[0]!.startsWith(`{"${JSONL_MARKER}":`);
+        problem = calorbit ? "it was written by a different sweep definition or shard" : "its header is not a calorbit sweep header";
       }
-      headerIndex++;
       continue;
     }
     const next = expected.next();
@@ -124,6 +173,10 @@ function openOutput(run: SweepRun): { fd: number; done: number } {
       problem = `its rows are not this sweep's cases in order (at row ${done + 1})`;
     } else {
       done++;
+      if (!lineOk(line, run.definition)) {
+        failed++;
+        firstFailure ??= line;
+      }
     }
   }
   const completeEnd = reader.endOffset;
@@ -132,25 +185,41 @@ function openOutput(run: SweepRun): { fd: number; done: number } {
     closeSync(fd);
     throw refuse(`${path}: refusing to resume: ${problem}`, "--out", "the same command that wrote the file, or a new file name");
   }
-  if (headerIndex < header.length) {
+  if (headerRead.length < header.length) {
     // Torn inside the header: start the file again.
     ftruncateSync(fd, 0);
     writeSync(fd, header.join("\n") + "\n", 0);
-    return { fd, done: 0 };
+    return sinkOn(fd, 0, 0, null);
   }
   if (completeEnd < size) ftruncateSync(fd, completeEnd); // a torn last row
   closeSync(fd);
-  return { fd: openSync(path, "a"), done };
+  return sinkOn(openSync(path, "a"), done, failed, firstFailure === null ? null : statusOfLine(firstFailure));
 }
 
-export async function runSweep(run: SweepRun): Promise<{ written: number; skipped: number }> {
+/** The status text of a row line, for messages. */
+function statusOfLine(line: string): string {
+  const m = /"?(error: [^"]*)"?/.exec(line);
+  return m ? m[1]! : line;
+}
+
+/** Opens the sink for the run's format (Parquet needs a file; the others may go to stdout). */
+export type SinkOpener = (run: SweepRun) => SweepSink;
+const sinkOpeners: Partial<Record<SweepDefinition["format"], SinkOpener>> = {};
+
+/** Lets a columnar format plug in its own sink (kept in its own module). */
+export function registerSink(format: SweepDefinition["format"], opener: SinkOpener): void {
+  sinkOpeners[format] = opener;
+}
+
+export async function runSweep(run: SweepRun): Promise<SweepResult> {
   const total = caseCount(run.definition.design);
   const size = shardSize(total, run.shard);
-  const output = run.out ? openOutput(run) : { fd: 1, done: 0 };
-  if (!run.out) writeSync(1, headerLines(run.definition, run.shard).join("\n") + "\n");
+  const sink = (sinkOpeners[run.definition.format] ?? openTextOutput)(run);
   const ids = shardIds(total, run.shard);
-  for (let i = 0; i < output.done; i++) ids.next();
-  const remaining = size - output.done;
+  for (let i = 0; i < sink.done; i++) ids.next();
+  const remaining = size - sink.done;
+  let failed = sink.failedBefore;
+  let firstFailure = sink.firstFailureBefore;
 
   const showProgress = !run.quiet && process.stderr.isTTY === true;
   const bar = showProgress
@@ -159,7 +228,7 @@ export async function runSweep(run: SweepRun): Promise<{ written: number; skippe
         cliProgress.Presets.shades_classic,
       )
     : null;
-  bar?.start(size, output.done, { rate: "0" });
+  bar?.start(size, sink.done, { rate: "0" });
   const startedAt = performance.now();
 
   const workerCount = Math.max(1, Math.min(run.workers, Math.ceil(remaining / CHUNK) || 1));
@@ -167,7 +236,7 @@ export async function runSweep(run: SweepRun): Promise<{ written: number; skippe
   let nextChunk = 0;
   let nextToWrite = 0;
   let written = 0;
-  const finished = new Map<number, { text: string; count: number }>();
+  const finished = new Map<number, ChunkResult>();
   const takeChunk = (): number[] | null => {
     const chunk: number[] = [];
     for (let i = 0; i < CHUNK; i++) {
@@ -182,11 +251,13 @@ export async function runSweep(run: SweepRun): Promise<{ written: number; skippe
     let active = 0;
     const flush = (): void => {
       for (let entry = finished.get(nextToWrite); entry; entry = finished.get(nextToWrite)) {
-        writeSync(output.fd, entry.text);
+        sink.write(entry);
         finished.delete(nextToWrite);
         nextToWrite++;
         written += entry.count;
-        if (bar) bar.update(output.done + written, { rate: (written / ((performance.now() - startedAt) / 1000)).toFixed(0) });
+        failed += entry.failed;
+        firstFailure ??= entry.firstFailure;
+        if (bar) bar.update(sink.done + written, { rate: (written / ((performance.now() - startedAt) / 1000)).toFixed(0) });
       }
     };
     const inFlight = new Map<Worker, number>();
@@ -220,8 +291,8 @@ export async function runSweep(run: SweepRun): Promise<{ written: number; skippe
       const worker = new Worker(new URL("./sweepWorker.js", import.meta.url), { workerData: { definition: run.definition }, resourceLimits: WORKER_HEAP_LIMITS });
       workers.push(worker);
       active++;
-      worker.on("message", (m: { chunk: number; text: string; count: number }) => {
-        finished.set(m.chunk, { text: m.text, count: m.count });
+      worker.on("message", (m: ChunkResult) => {
+        finished.set(m.chunk, m);
         inFlight.set(worker, inFlight.get(worker)! - 1);
         flush();
         feed(worker);
@@ -247,9 +318,9 @@ export async function runSweep(run: SweepRun): Promise<{ written: number; skippe
     await finishedRun;
   } finally {
     bar?.stop();
-    if (run.out) closeSync(output.fd);
+    sink.close();
   }
-  return { written, skipped: output.done };
+  return { written, skipped: sink.done, failed, firstFailure };
 }
 
 /**
@@ -259,30 +330,28 @@ export async function runSweep(run: SweepRun): Promise<{ written: number; skippe
 export function mergeShards(files: string[], out: string, totalFor: (definitionJson: string) => number): { cases: number } {
   if (files.length === 0) throw refuse("sweep merge: no shard files given", "files", "one or more shard files");
   for (const file of files) if (!existsSync(file)) throw refuse(`${file}: no such file`, "files", "existing shard files");
+  if (files.some((file) => resolvePath(file) === resolvePath(out))) throw refuse(`sweep merge: --out ${out} is one of the shard files`, "--out", "a new file name (an input is never overwritten)");
   const readers = files.map((file) => {
     const reader = LineReader.open(file);
-    const header: string[] = [];
-    let line = reader.next();
-    while (line !== null && line.startsWith("#")) {
-      header.push(line);
-      line = reader.next();
+    const head: string[] = [];
+    for (let i = 0; i < 4; i++) {
+      const line = reader.next();
+      if (line === null) break;
+      head.push(line);
     }
-    const definition = header.find((l) => l.startsWith("# definition: "));
-    if (!definition) throw refuse(`${file}: not a calorbit sweep file`, "files", "files written by calorbit sweep");
-    const format: SweepFormat = (JSON.parse(definition.slice("# definition: ".length)) as { format: SweepFormat }).format;
-    let columnsRow: string | null = null;
-    if (format === "csv" && line !== null && line.startsWith("case_id,")) {
-      columnsRow = line;
-      line = reader.next();
-    }
-    return { file, header, definition, format, columnsRow, reader, current: line };
+    const header = readHeader(head);
+    if (!header) throw refuse(`${file}: not a calorbit sweep file`, "files", "files written by calorbit sweep (CSV or JSON Lines)");
+    const lines = head.slice(header.lineCount);
+    const nextLine = (): string | null => (lines.length > 0 ? lines.shift()! : reader.next());
+    return { file, header, headLines: head.slice(0, header.lineCount), reader: { next: nextLine }, current: nextLine() };
   });
   const first = readers[0]!;
   for (const r of readers) {
-    if (r.definition !== first.definition) throw refuse(`${r.file}: not a shard of the same sweep as ${first.file}`, "files", "shards written by one sweep definition");
+    if (r.header.definition !== first.header.definition) throw refuse(`${r.file}: not a shard of the same sweep as ${first.file}`, "files", "shards written by one sweep definition");
   }
-  const total = totalFor(first.definition.slice("# definition: ".length));
-  const idOf = (line: string) => lineCaseId(line, first.format);
+  const total = totalFor(first.header.definition);
+  const format = first.header.format;
+  const idOf = (line: string) => lineCaseId(line, format);
   const missing: number[] = [];
   const duplicates: number[] = [];
   const note = (list: number[], id: number) => {
@@ -291,8 +360,13 @@ export function mergeShards(files: string[], out: string, totalFor: (definitionJ
   };
   const temporary = `${out}.${process.pid}.partial`;
   const fd = openSync(temporary, "w");
-  const shardCount = /# shard: \d+\/(\d+)/.exec(first.header.join("\n"))?.[1] ?? "?";
-  writeSync(fd, [first.header[0], first.definition, `# shard: merged from ${files.length} of ${shardCount} shards`, ...(first.columnsRow ? [first.columnsRow] : [])].join("\n") + "\n");
+  const shardCount = /^\d+\/(\d+)$/.exec(first.header.shard)?.[1] ?? "?";
+  const mergedShard = `merged from ${files.length} of ${shardCount} shards`;
+  const mergedHeader =
+    format === "jsonl"
+      ? [first.headLines[0]!.replace(/"shard":"[^"]*"\}\}$/, `"shard":${JSON.stringify(mergedShard)}}}`)]
+      : [first.headLines[0]!, first.headLines[1]!, `# shard: ${mergedShard}`, ...first.headLines.slice(3)];
+  writeSync(fd, mergedHeader.join("\n") + "\n");
   let expected = 0;
   let block: string[] = [];
   for (;;) {

@@ -5,7 +5,7 @@
  * Shards take every N-th case, so a job array of N shards covers the sweep exactly once.
  */
 import { CalorbitError } from "../errors.js";
-import type { Axis, AxisValue } from "./spec.js";
+import { levelAt, type Axis, type AxisValue } from "./spec.js";
 
 export interface Design {
   axes: Axis[];
@@ -32,24 +32,20 @@ export function seededRandom(seed: number): () => number {
 
 export function caseCount(design: Design): number {
   if (design.random) return design.random.count;
-  return design.axes.reduce((n, a) => n * a.levels.length, 1);
+  return design.axes.reduce((n, a) => n * a.count, 1);
 }
 
 /** A function from case id to its values; for a hypercube, the permutations are drawn once here. */
 export function caseMaker(design: Design): (id: number) => CaseValues {
   const { axes } = design;
-  const total = caseCount(design);
-  if (total > 100_000_000) {
-    throw new CalorbitError("USAGE", `the sweep has ${total} cases; at most 100,000,000 per definition (split it)`, []);
-  }
   if (!design.random) {
     const strides = new Array<number>(axes.length);
     let stride = 1;
     for (let d = axes.length - 1; d >= 0; d--) {
       strides[d] = stride;
-      stride *= axes[d]!.levels.length;
+      stride *= axes[d]!.count;
     }
-    return (id) => ({ id, values: axes.map((a, d) => a.levels[Math.floor(id / strides[d]!) % a.levels.length]!) });
+    return (id) => ({ id, values: axes.map((a, d) => levelAt(a, Math.floor(id / strides[d]!) % a.count)) });
   }
   const n = design.random.count;
   const random = seededRandom(design.random.seed);
@@ -74,7 +70,7 @@ export function caseMaker(design: Design): (id: number) => CaseValues {
         const v = log ? Math.exp(Math.log(from) + u * (Math.log(to) - Math.log(from))) : from + u * (to - from);
         return a.unit === "" ? v : `${v} ${a.unit}`;
       }
-      return a.levels[Math.min(a.levels.length - 1, Math.floor(u * a.levels.length))]!;
+      return levelAt(a, Math.min(a.count - 1, Math.floor(u * a.count)));
     }),
   });
 }

@@ -13,7 +13,10 @@ import { VERSION } from "../version.js";
 import type { CaseValues, Design, Shard } from "./design.js";
 import { columnValue, setPath } from "./spec.js";
 
-export type SweepFormat = "csv" | "jsonl";
+export type SweepFormat = "csv" | "jsonl" | "parquet";
+
+/** One cell of an output row. */
+export type Cell = number | string | null;
 
 export interface SweepDefinition {
   /** The base scenario document as parsed from its file (before validation). */
@@ -68,11 +71,53 @@ export function fingerprint(def: SweepDefinition): string {
   });
 }
 
-/** Header lines (CSV: '#' comments then the column row; JSON Lines: one '#'-free meta object is not used, so '#' lines too). */
+/** The marker field of a JSON Lines sweep file's first object, which holds the version, definition and shard. */
+export const JSONL_MARKER = "calorbitSweep";
+
+/**
+ * Header lines. CSV: '#' comment lines (version, definition, shard) then the column row. JSON Lines:
+ * one JSON object whose only key is the marker, so that every line of the file is JSON.
+ */
 export function headerLines(def: SweepDefinition, shard: Shard): string[] {
-  const lines = [`# calorbit ${VERSION} sweep`, `# definition: ${fingerprint(def)}`, `# shard: ${shard.index}/${shard.count}`];
-  if (def.format === "csv") lines.push(columns(def).join(","));
-  return lines;
+  if (def.format === "jsonl") {
+    return [`{"${JSONL_MARKER}":{"version":${JSON.stringify(VERSION)},"definition":${fingerprint(def)},"shard":"${shard.index}/${shard.count}"}}`];
+  }
+  return [`# calorbit ${VERSION} sweep`, `# definition: ${fingerprint(def)}`, `# shard: ${shard.index}/${shard.count}`, columns(def).join(",")];
+}
+
+/** What a sweep file's header says, from its first lines (null when they are not a calorbit sweep header). */
+export interface SweepHeader {
+  version: string;
+  /** The definition's fingerprint, as written. */
+  definition: string;
+  format: SweepFormat;
+  /** "i/N", or "merged from …" */
+  shard: string;
+  /** Lines the header takes (the CSV column row included). */
+  lineCount: number;
+}
+
+export function readHeader(lines: readonly string[]): SweepHeader | null {
+  const first = lines[0] ?? "";
+  if (first.startsWith(`{"${JSONL_MARKER}":`)) {
+    try {
+      const meta = (JSON.parse(first) as Record<string, { version: string; definition: unknown; shard: string }>)[JSONL_MARKER]!;
+      return { version: meta.version, definition: JSON.stringify(meta.definition), format: "jsonl", shard: meta.shard, lineCount: 1 };
+    } catch {
+      return null;
+    }
+  }
+  const version = /^# calorbit (\S+) sweep$/.exec(first)?.[1];
+  const definition = lines[1]?.startsWith("# definition: ") ? lines[1].slice("# definition: ".length) : undefined;
+  const shard = lines[2]?.startsWith("# shard: ") ? lines[2].slice("# shard: ".length) : undefined;
+  if (version === undefined || definition === undefined || shard === undefined) return null;
+  let format: SweepFormat;
+  try {
+    format = (JSON.parse(definition) as { format: SweepFormat }).format;
+  } catch {
+    return null;
+  }
+  return { version, definition, format, shard, lineCount: lines[3]?.startsWith("case_id,") ? 4 : 3 };
 }
 
 function csvField(v: number | string | null): string {
@@ -151,8 +196,8 @@ function columnMetrics(thermal: ThermalCase, relativeTolerance: number): Metrics
   };
 }
 
-/** Runs one case and returns its output line (without the newline). */
-export function runCase(def: SweepDefinition, c: CaseValues): string {
+/** Runs one case: its cells in column order (see `columns`); a failed case has status "error: …" and empty metrics. */
+export function caseCells(def: SweepDefinition, c: CaseValues): Cell[] {
   const inputs = def.design.axes.map((a, d) => columnValue(a, c.values[d]!));
   let status = "ok";
   let metrics: Metrics | null = null;
@@ -164,16 +209,45 @@ export function runCase(def: SweepDefinition, c: CaseValues): string {
   } catch (err) {
     status = `error: ${failureReason(err)}`.replace(/\s+/g, " ");
   }
+  return [c.id, ...inputs, status, ...METRIC_COLUMNS.map((k) => (metrics ? metrics[k] : null))];
+}
+
+/** Index of the status cell in a row. */
+export function statusIndex(def: SweepDefinition): number {
+  return 1 + def.design.axes.length;
+}
+
+/** A row as its text line (without the newline): CSV, or a JSON object holding every column that has a value. */
+export function formatRow(def: SweepDefinition, cells: readonly Cell[]): string {
   if (def.format === "jsonl") {
-    const names = inputColumns(def);
-    const record: Record<string, unknown> = { case_id: c.id };
-    names.forEach((n, i) => (record[n] = inputs[i]));
-    record.status = status;
-    if (metrics) Object.assign(record, metrics);
+    const names = columns(def);
+    const record: Record<string, Cell> = {};
+    cells.forEach((v, i) => {
+      if (v !== null) record[names[i]!] = v;
+    });
     return JSON.stringify(record);
   }
-  const metricFields = METRIC_COLUMNS.map((k) => csvField(metrics ? metrics[k] : null));
-  return [String(c.id), ...inputs.map(csvField), csvField(status), ...metricFields].join(",");
+  return cells.map(csvField).join(",");
+}
+
+/** Runs one case and returns its output line (without the newline). */
+export function runCase(def: SweepDefinition, c: CaseValues): string {
+  return formatRow(def, caseCells(def, c));
+}
+
+/** Whether a row's line records a successful case (the status field is "ok"). */
+export function lineOk(line: string, def: SweepDefinition): boolean {
+  if (def.format === "jsonl") {
+    try {
+      return (JSON.parse(line) as { status?: unknown }).status === "ok";
+    } catch {
+      return false;
+    }
+  }
+  // Fields before the status are the case id and the inputs, which never hold a comma or quote.
+  let at = 0;
+  for (let i = 0; i < statusIndex(def); i++) at = line.indexOf(",", at) + 1;
+  return line.startsWith("ok,", at) || line.length === at + 2 && line.endsWith("ok");
 }
 
 /** Case id of an output line (the first field in both formats); NaN if unreadable. */

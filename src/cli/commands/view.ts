@@ -54,7 +54,7 @@ async function viewCommand(path: string | undefined, flags: ViewFlags): Promise<
 function isSweepFile(path: string): boolean {
   try {
     const head = readFileSync(path, "utf8").slice(0, 200);
-    return /^# calorbit [^\n]* sweep\n/.test(head);
+    return /^# calorbit [^\n]* sweep\n/.test(head) || head.startsWith('{"calorbitSweep":');
   } catch {
     return false;
   }
