@@ -13,7 +13,11 @@ import { CalorbitError } from "../errors.js";
 import { caseCount, shardIds, shardSize, type Shard } from "../sweep/design.js";
 import { headerLines, JSONL_MARKER, lineCaseId, lineOk, readHeader, type Cell, type SweepDefinition } from "../sweep/runCase.js";
 
-const CHUNK = 32;
+/**
+ * Cases per chunk sent to a worker: 32 for a long sweep (fewer messages), fewer for a short one, so
+ * that its cases spread over the workers and rows land as they finish (slow column cases above all).
+ */
+const MAX_CHUNK = 32;
 /**
  * A case needs well under 1 MiB of live heap (a worker holds about 9 MiB after a collection), but
  * V8 lets an old generation grow with the run's length before it collects; a cap keeps a long
@@ -231,7 +235,8 @@ export async function runSweep(run: SweepRun): Promise<SweepResult> {
   bar?.start(size, sink.done, { rate: "0" });
   const startedAt = performance.now();
 
-  const workerCount = Math.max(1, Math.min(run.workers, Math.ceil(remaining / CHUNK) || 1));
+  const chunkSize = Math.max(1, Math.min(MAX_CHUNK, Math.ceil(remaining / (8 * run.workers))));
+  const workerCount = Math.max(1, Math.min(run.workers, Math.ceil(remaining / chunkSize) || 1));
   const workers: Worker[] = [];
   let nextChunk = 0;
   let nextToWrite = 0;
@@ -239,7 +244,7 @@ export async function runSweep(run: SweepRun): Promise<SweepResult> {
   const finished = new Map<number, ChunkResult>();
   const takeChunk = (): number[] | null => {
     const chunk: number[] = [];
-    for (let i = 0; i < CHUNK; i++) {
+    for (let i = 0; i < chunkSize; i++) {
       const n = ids.next();
       if (n.done) break;
       chunk.push(n.value);

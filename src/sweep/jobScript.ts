@@ -36,6 +36,8 @@ export interface JobPlan {
   mountPath: string;
   /** How to run calorbit where the job runs (default "npx calorbit"). */
   command: string;
+  /** The job file's own name, for the instructions in it. */
+  fileName?: string;
 }
 
 /** The number of array tasks: enough for casesPerTask each, but never more than maxArray or the cases. */
@@ -65,7 +67,7 @@ export function slurmScript(plan: JobPlan): string {
   const merged = `${plan.prefix}.${ext}`;
   return `#!/bin/bash
 # A calorbit sweep as a Slurm job array: ${describe(plan, tasks)}.
-# Submit it with: bash THIS-FILE (it submits itself as the array, then the merge after it)
+# Submit it with: bash ${shellQuote(plan.fileName ?? "THIS-FILE")} (it submits itself as the array, then the merge after it)
 # Each task runs one shard (--shard auto reads SLURM_ARRAY_TASK_ID); a requeued or rerun task resumes
 # its own file (finished cases kept, a torn last row cut off). CALORBIT overrides how calorbit is run.
 #SBATCH --job-name=${plan.jobName}
@@ -100,6 +102,7 @@ export function kubernetesJob(plan: JobPlan): string {
   const sweep = plan.sweepArgs.map(shellQuote).join(" ");
   const script = `${plan.command} sweep ${sweep} --workers ${plan.cpusPerTask} --quiet --shard auto --shards ${tasks} --out ${plan.prefix}-$JOB_COMPLETION_INDEX.${ext}`;
   return `# A calorbit sweep as a Kubernetes indexed Job: ${describe(plan, tasks)}.
+# Apply it with: kubectl apply -f ${plan.fileName ?? "THIS-FILE"} (the scenario file must be on the volume, in ${plan.mountPath}).
 # Each pod runs the shard of its JOB_COMPLETION_INDEX (0 to ${tasks - 1}) and writes it to the shared volume;
 # a restarted pod resumes its own file. When the Job is complete, merge the shards:
 #   kubectl wait --for=condition=complete --timeout=-1s job/${plan.jobName}

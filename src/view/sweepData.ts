@@ -40,7 +40,8 @@ export function parseSweepText(text: string): SweepTable {
   let header: string[];
   let records: Record<string, unknown>[];
   if (lines[0]?.startsWith("{")) {
-    records = lines.map((l) => JSON.parse(l) as Record<string, unknown>);
+    // The first object of a JSON Lines sweep holds its definition under a marker key, not a case.
+    records = lines.map((l) => JSON.parse(l) as Record<string, unknown>).filter((r) => !("calorbitSweep" in r));
     header = Object.keys(records.find((r) => r.status === "ok") ?? records[0] ?? {});
   } else {
     header = splitCsvLine(lines[0] ?? "");

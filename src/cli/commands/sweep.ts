@@ -116,6 +116,7 @@ function jobScriptCommand(m: SweepModules, args: string[], flags: SweepFlags): v
     claim: flags.claim,
     mountPath: flags.mountPath,
     command: flags.command,
+    ...(flags.out !== undefined ? { fileName: flags.out } : {}),
   };
   const text = scheduler === "slurm" ? m.slurmScript(plan) : m.kubernetesJob(plan);
   if (flags.out === undefined) {
