@@ -11,13 +11,21 @@ import { Worker } from "node:worker_threads";
 import cliProgress from "cli-progress";
 import { CalorbitError } from "../errors.js";
 import { caseCount, shardIds, shardSize, type Shard } from "../sweep/design.js";
-import { headerLines, JSONL_MARKER, lineCaseId, lineOk, readHeader, type Cell, type SweepDefinition } from "../sweep/runCase.js";
+import { caseMaker } from "../sweep/design.js";
+import { headerLines, JSONL_MARKER, lineCaseId, lineOk, readHeader, runChunk, type ChunkResult, type SweepDefinition } from "../sweep/runCase.js";
+
+export type { ChunkResult } from "../sweep/runCase.js";
 
 /**
  * Cases per chunk sent to a worker: 32 for a long sweep (fewer messages), fewer for a short one, so
  * that its cases spread over the workers and rows land as they finish (slow column cases above all).
  */
 const MAX_CHUNK = 32;
+/**
+ * A sweep with no more cases than this left runs in the main thread: a worker thread loads every
+ * module again (about a second on a loaded machine), which is more than such a sweep's cases take.
+ */
+const IN_THREAD_CASES = 48;
 /**
  * A case needs well under 1 MiB of live heap (a worker holds about 9 MiB after a collection), but
  * V8 lets an old generation grow with the run's length before it collects; a cap keeps a long
@@ -51,16 +59,6 @@ export interface SweepResult {
   failed: number;
   /** The first failure's status, for the closing message. */
   firstFailure: string | null;
-}
-
-/** What a worker sends back for one chunk: its rows as text (CSV, JSON Lines) or as cells (Parquet). */
-export interface ChunkResult {
-  chunk: number;
-  count: number;
-  failed: number;
-  firstFailure: string | null;
-  text?: string;
-  rows?: Cell[][];
 }
 
 /** Where a sweep's rows go, in case-id order. */
@@ -206,19 +204,11 @@ function statusOfLine(line: string): string {
   return m ? m[1]! : line;
 }
 
-/** Opens the sink for the run's format (Parquet needs a file; the others may go to stdout). */
-export type SinkOpener = (run: SweepRun) => SweepSink;
-const sinkOpeners: Partial<Record<SweepDefinition["format"], SinkOpener>> = {};
-
-/** Lets a columnar format plug in its own sink (kept in its own module). */
-export function registerSink(format: SweepDefinition["format"], opener: SinkOpener): void {
-  sinkOpeners[format] = opener;
-}
-
 export async function runSweep(run: SweepRun): Promise<SweepResult> {
   const total = caseCount(run.definition.design);
   const size = shardSize(total, run.shard);
-  const sink = (sinkOpeners[run.definition.format] ?? openTextOutput)(run);
+  // Parquet's writer and reader load only for a Parquet sweep.
+  const sink = run.definition.format === "parquet" ? await (await import("./sweepParquet.js")).openParquetOutput(run) : openTextOutput(run);
   const ids = shardIds(total, run.shard);
   for (let i = 0; i < sink.done; i++) ids.next();
   const remaining = size - sink.done;
@@ -236,6 +226,31 @@ export async function runSweep(run: SweepRun): Promise<SweepResult> {
   const startedAt = performance.now();
 
   const chunkSize = Math.max(1, Math.min(MAX_CHUNK, Math.ceil(remaining / (8 * run.workers))));
+  if (remaining <= IN_THREAD_CASES) {
+    const makeCase = caseMaker(run.definition.design);
+    let written = 0;
+    try {
+      for (let chunk = 0; ; chunk++) {
+        const chunkIds: number[] = [];
+        while (chunkIds.length < chunkSize) {
+          const n = ids.next();
+          if (n.done) break;
+          chunkIds.push(n.value);
+        }
+        if (chunkIds.length === 0) break;
+        const result = runChunk(run.definition, makeCase, chunk, chunkIds);
+        sink.write(result);
+        written += result.count;
+        failed += result.failed;
+        firstFailure ??= result.firstFailure;
+        bar?.update(sink.done + written, { rate: (written / ((performance.now() - startedAt) / 1000)).toFixed(0) });
+      }
+    } finally {
+      bar?.stop();
+      sink.close();
+    }
+    return { written, skipped: sink.done, failed, firstFailure };
+  }
   const workerCount = Math.max(1, Math.min(run.workers, Math.ceil(remaining / chunkSize) || 1));
   const workers: Worker[] = [];
   let nextChunk = 0;

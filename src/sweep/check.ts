@@ -14,6 +14,9 @@ import { alternativesOf, levelAt, setPath, type Axis, type AxisValue } from "./s
 /** Levels of one axis validated one by one; a longer range is checked at its ends and this many points between. */
 const LEVELS_CHECKED = 1000;
 
+/** The scenario format as JSON Schema, built once (zod's conversion takes a while). */
+let schemaCache: JsonSchema | undefined;
+
 type JsonSchema = { properties?: Record<string, JsonSchema>; prefixItems?: JsonSchema[]; items?: JsonSchema; anyOf?: JsonSchema[]; oneOf?: JsonSchema[] };
 
 /** The schema node at a key under `node` (through unions), or null. */
@@ -98,7 +101,8 @@ function failure(doc: Record<string, unknown>): readonly FieldProblem[] | null {
  */
 export function checkDefinition(scenario: Record<string, unknown>, design: Design, maxCases: number = DEFAULT_MAX_CASES): void {
   const { axes } = design;
-  const schema = scenarioJsonSchema() as JsonSchema;
+  schemaCache ??= scenarioJsonSchema() as JsonSchema;
+  const schema = schemaCache;
   const problems: FieldProblem[] = [];
   for (const a of axes) {
     const unknown = unknownPath(schema, a.path);

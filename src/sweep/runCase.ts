@@ -60,6 +60,30 @@ export function columns(def: SweepDefinition): string[] {
   return ["case_id", ...inputColumns(def), "status", ...METRIC_COLUMNS];
 }
 
+/** A column's type in a columnar file: its values, and whether a row may leave it empty. */
+export interface ColumnType {
+  name: string;
+  type: "INT64" | "INT32" | "DOUBLE" | "STRING";
+  nullable: boolean;
+}
+
+const INTEGER_METRICS = new Set<string>(["iterations", "orbits", "evaluations"]);
+
+/** The columns with their types (Parquet): numbers as doubles (counts as integers), text as strings. */
+export function columnTypes(def: SweepDefinition): ColumnType[] {
+  const inputs = inputColumns(def).map((name, d): ColumnType => {
+    const a = def.design.axes[d]!;
+    const numeric = a.range !== undefined || a.unit !== "" || (a.list ?? []).every((v) => typeof v === "number");
+    return { name, type: numeric ? "DOUBLE" : "STRING", nullable: false };
+  });
+  return [
+    { name: "case_id", type: "INT64", nullable: false },
+    ...inputs,
+    { name: "status", type: "STRING", nullable: false },
+    ...METRIC_COLUMNS.map((name): ColumnType => ({ name, type: name === "integrator" ? "STRING" : INTEGER_METRICS.has(name) ? "INT32" : "DOUBLE", nullable: true })),
+  ];
+}
+
 /** The identity of a sweep: what must match for a file to be resumed or merged. */
 export function fingerprint(def: SweepDefinition): string {
   return JSON.stringify({
@@ -233,6 +257,33 @@ export function formatRow(def: SweepDefinition, cells: readonly Cell[]): string 
 /** Runs one case and returns its output line (without the newline). */
 export function runCase(def: SweepDefinition, c: CaseValues): string {
   return formatRow(def, caseCells(def, c));
+}
+
+/** One chunk's rows, as a worker sends them back: text (CSV, JSON Lines) or cells (Parquet), with the failures counted. */
+export interface ChunkResult {
+  chunk: number;
+  count: number;
+  failed: number;
+  firstFailure: string | null;
+  text?: string;
+  rows?: Cell[][];
+}
+
+/** Runs the cases of one chunk. */
+export function runChunk(def: SweepDefinition, makeCase: (id: number) => CaseValues, chunk: number, ids: readonly number[]): ChunkResult {
+  const statusAt = statusIndex(def);
+  const rows = ids.map((id) => caseCells(def, makeCase(id)));
+  let failed = 0;
+  let firstFailure: string | null = null;
+  for (const row of rows) {
+    if (row[statusAt] !== "ok") {
+      failed++;
+      firstFailure ??= String(row[statusAt]);
+    }
+  }
+  return def.format === "parquet"
+    ? { chunk, count: rows.length, failed, firstFailure, rows }
+    : { chunk, count: rows.length, failed, firstFailure, text: rows.map((r) => formatRow(def, r)).join("\n") + "\n" };
 }
 
 /** Whether a row's line records a successful case (the status field is "ok"). */
