@@ -11,9 +11,9 @@ import { createServer } from "node:net";
 import { hostname, tmpdir } from "node:os";
 import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { calorbit } from "./sweepCli.js";
+import { calorbit, CLI } from "./sweepCli.js";
 
-const CLI = join(import.meta.dirname, "..", "dist", "src", "cli", "main.js");
+
 const IN_CI = process.env.CI === "true";
 /** Bounds on waiting for the cluster: generous (a loaded machine is slow), but finite. */
 const START_WAIT_MS = 90_000;

@@ -8,9 +8,9 @@ import { checkDefinition } from "../src/sweep/check.js";
 import { caseCount, caseMaker, parseShard, shardIds, type Design } from "../src/sweep/design.js";
 import { resolveShard } from "../src/sweep/shard.js";
 import { levelAt, parseAxis, type Axis } from "../src/sweep/spec.js";
-import { calorbit } from "./sweepCli.js";
+import { calorbit, CLI } from "./sweepCli.js";
 
-const CLI = join(import.meta.dirname, "..", "dist", "src", "cli", "main.js");
+
 const BASE = {
   name: "sweep base",
   star: { luminosity: "1 Lsun", mass: "1 Msun" },

@@ -1,9 +1,14 @@
-/** Runs the built CLI in-process (npm test builds it first): no process start-up per call. */
+/**
+ * Runs the built CLI in-process (npm test builds it first), with its output collected and, for
+ * `--shard auto`, scheduler variables set for the one call: no process start-up per call.
+ */
 import { existsSync } from "node:fs";
 import { join } from "node:path";
-import { vi } from "vitest";
+import { main } from "../dist/src/cli/program.js";
 
-const PROGRAM = join(import.meta.dirname, "..", "dist", "src", "cli", "program.js");
+/** The compiled executable, for the tests that need a real process. */
+export const CLI = join(import.meta.dirname, "..", "dist", "src", "cli", "main.js");
+if (!existsSync(CLI)) throw new Error(`${CLI} is missing: run 'npm run build' (npm test does it)`);
 
 export interface CliResult {
   status: number;
@@ -11,28 +16,16 @@ export interface CliResult {
   stderr: string;
 }
 
-/** `calorbit ARGS…` in this process, with stdout and stderr captured (env: extra variables for the run). */
+/** `calorbit ARGS…` in this process (env: variables set for the call, restored after it). */
 export async function calorbit(args: string[], env: Record<string, string> = {}): Promise<CliResult> {
-  if (!existsSync(PROGRAM)) throw new Error(`${PROGRAM} is missing: run 'npm run build' (npm test does it)`);
-  const { main } = (await import(PROGRAM)) as { main: (argv: string[]) => Promise<number> };
   let stdout = "";
   let stderr = "";
-  const out = vi.spyOn(process.stdout, "write").mockImplementation((chunk: string | Uint8Array) => {
-    stdout += String(chunk);
-    return true;
-  });
-  const err = vi.spyOn(process.stderr, "write").mockImplementation((chunk: string | Uint8Array) => {
-    stderr += String(chunk);
-    return true;
-  });
   const saved = Object.fromEntries(Object.keys(env).map((k) => [k, process.env[k]]));
   Object.assign(process.env, env);
   try {
-    const status = await main(["node", "calorbit", ...args]);
+    const status = await main(["node", "calorbit", ...args], { out: (text) => void (stdout += text), err: (text) => void (stderr += text) });
     return { status, stdout, stderr };
   } finally {
-    out.mockRestore();
-    err.mockRestore();
     for (const [k, v] of Object.entries(saved)) {
       if (v === undefined) delete process.env[k];
       else process.env[k] = v;
