@@ -71,3 +71,7 @@ export const SPIEGEL_ICE_FRACTION_SCALE_K = 10;
 export const SPIEGEL_FREEZING_K = 273;
 /** Lower edge of the near-freezing ice heat capacity, K. Spiegel et al. 2008 (from memory). */
 export const SPIEGEL_COLD_ICE_K = 263;
+/** North's meridional diffusion coefficient D (x = sin latitude form), W m⁻² K⁻¹. North, Cahalan & Coakley 1981. */
+export const NORTH_DIFFUSION_W_PER_M2K = 0.649;
+/** Albedo of ice in North's model: co-albedo 0.38. North, Cahalan & Coakley 1981. */
+export const NORTH_ICE_ALBEDO = 1 - 0.38;

@@ -122,8 +122,8 @@ export function zonalSummary(input: ZonalSummaryInput): ZonalSummary {
     globalMin = Math.min(globalMin, g);
     globalMax = Math.max(globalMax, g);
     // Hemisphere ice share a (of 1/2 of the sphere) ↔ a cap poleward of asin(1 − a).
-    edges[2 * k] = Math.asin(Math.max(-1, Math.min(1, 1 - 2 * south))) * DEG;
-    edges[2 * k + 1] = Math.asin(Math.max(-1, Math.min(1, 1 - 2 * north))) * DEG;
+    edges[2 * k] = Math.asin(Math.max(0, Math.min(1, 1 - 2 * south))) * DEG;
+    edges[2 * k + 1] = Math.asin(Math.max(0, Math.min(1, 1 - 2 * north))) * DEG;
     ice[k] = iced;
   }
   for (let k = 0; k < K; k++) {

@@ -5,6 +5,7 @@
 import type { HeatExchange } from "../physics/dayNight.js";
 import type { SurfaceProperties } from "../physics/energyBalance.js";
 import type { Orbit } from "../physics/orbit.js";
+import type { ClimateSettings } from "../physics/climateSettings.js";
 import type { Star } from "../physics/star.js";
 import type { ColumnSpec, HeatStore } from "./heatStore.js";
 import type { Regime } from "./regimes.js";
@@ -57,4 +58,6 @@ export interface ThermalCase {
   exchange?: HeatExchange;
   /** Shorthand for `heatStore: { kind: "column", column }`: a conduction column under the surface. */
   column?: ColumnSpec;
+  /** The zonal climate's settings (latitude bands, transport, radiation, ice): present for a zonal case. */
+  climate?: ClimateSettings;
 }

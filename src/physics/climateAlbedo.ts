@@ -10,7 +10,7 @@
  *   from memory), independent of x.
  * P₂(x) = (3x² − 1)/2 (Legendre), as in North's annual-mean profiles.
  */
-import { NORTH_ICE_EDGE_K, SMOOTH_ICE_ALBEDO } from "../constants.js";
+import { NORTH_ICE_ALBEDO, NORTH_ICE_EDGE_K, SMOOTH_ICE_ALBEDO } from "../constants.js";
 import { requireNumber } from "../errors.js";
 
 export const ALBEDO_LAWS = ["constant", "step", "smooth"] as const;
@@ -47,7 +47,7 @@ export function legendreP2(x: number): number {
 
 /** North's step law with his ice-free profile and ice co-albedo (North, Cahalan & Coakley 1981): co-albedo 0.697 − 0.0779 P₂ ice-free, 0.38 over ice, at −10 °C. */
 export function northStepAlbedo(rampK = DEFAULT_STEP_RAMP_K): AlbedoSpec {
-  return { law: "step", warm: 1 - 0.697, warmP2: 0.0779, ice: 1 - 0.38, iceK: NORTH_ICE_EDGE_K, rampK };
+  return { law: "step", warm: 1 - 0.697, warmP2: 0.0779, ice: NORTH_ICE_ALBEDO, iceK: NORTH_ICE_EDGE_K, rampK };
 }
 
 function checkAlbedo(path: string, a: number): void {

@@ -7,7 +7,8 @@
 import { anomaliesUniformInTime, orbitColumns, type OrbitColumns } from "../analysis/orbitSampling.js";
 import { zonalSummary, type ZonalSummary } from "../analysis/zonalSummary.js";
 import { ZERO_CELSIUS_K } from "../constants.js";
-import { requireNumber } from "../errors.js";
+import { CalorbitError, requireNumber } from "../errors.js";
+import type { ThermalCase } from "../model/thermalCase.js";
 import { albedoLaw, type AlbedoLaw, type BandAlbedo } from "../physics/climateAlbedo.js";
 import { bandGrid, meridionalDiffusion, type BandGrid } from "../physics/climateBands.js";
 import { heatCapacityLaw } from "../physics/climateHeatCapacity.js";
@@ -67,6 +68,20 @@ export interface ZonalSimulation {
   /** With start "both": true when the warm and cold starts reached the same climate (then one is listed). */
   startsAgree: boolean | null;
   startE: number;
+}
+
+/** The zonal case of a resolved thermal case (its `climate` settings, axis, star and orbit). */
+export function zonalCaseOf(thermal: ThermalCase): ZonalCase {
+  if (!thermal.climate) throw new CalorbitError("INVALID_ARGUMENT", "not a zonal case", [{ path: "climate", given: "missing", allowed: "climate settings (regime zonal)" }]);
+  return {
+    luminosityW: thermal.star.luminosityW,
+    orbit: thermal.orbit,
+    obliquityRad: thermal.spin?.obliquityRad ?? 0,
+    equinoxTrueAnomalyRad: thermal.spin?.equinoxTrueAnomalyRad ?? 0,
+    internalFluxWPerM2: thermal.surface.internalFluxWPerM2,
+    climate: thermal.climate,
+    ...(thermal.windowK ? { windowK: thermal.windowK } : {}),
+  };
 }
 
 interface Prepared {

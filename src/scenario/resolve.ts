@@ -9,6 +9,7 @@ import { DEFAULT_GRID } from "../physics/column.js";
 import { layerHeatCapacity, MATERIALS, type MaterialName } from "../physics/materials.js";
 import { keplerPeriodSeconds } from "../physics/orbit.js";
 import { luminosityFromRadiusTemperature, massParameter } from "../physics/star.js";
+import { resolveClimate } from "./climate.js";
 import { parseRatio, scenarioSchema, type ParsedScenario } from "./schema.js";
 
 /** How the heat capacity was obtained, kept for the report. */
@@ -132,6 +133,10 @@ function fromParsed(s: ParsedScenario, raw: unknown): ResolvedScenario {
       specificHeatJPerKgK: m.specificHeatJPerKgK,
       source: m.source,
     };
+  } else if (s.climate?.heatCapacity !== undefined) {
+    // The bands take their heat capacity from climate.heatCapacity; this slot is only reported.
+    const c = resolveClimate(s.climate, { albedo: s.body.albedo, emissivity: 1, heatCapacityJPerM2K: 1 }).heatCapacity;
+    heatCapacity = c.kind === "surface" ? c.oceanFraction * c.oceanHeatCapacityJPerM2K + (1 - c.oceanFraction) * c.landHeatCapacityJPerM2K : c.heatCapacityJPerM2K;
   } else {
     problem("body.heatCapacity", "an areal heat capacity, or body.layer {material, thickness}");
   }
@@ -179,6 +184,7 @@ function fromParsed(s: ParsedScenario, raw: unknown): ResolvedScenario {
     location: { latitudeRad: s.surface?.latitude ?? 0, longitudeRad: s.surface?.longitude ?? 0 },
   };
   if (column !== undefined) thermal.column = columnSpec(column, s.body.internalFlux ?? 0);
+  if (s.climate !== undefined) thermal.climate = resolveClimate(s.climate, thermal.surface);
   const n = (2 * Math.PI) / periodSeconds;
   const ratio = s.spin?.orbitRatio !== undefined ? parseRatio(s.spin.orbitRatio) : s.spin?.period === undefined ? { spin: 1, orbit: 1 } : undefined;
   thermal.spin = {

@@ -7,6 +7,9 @@ import { z } from "zod";
 import { REGIMES } from "../model/thermalCase.js";
 import { DAYSIDE_WEIGHTINGS } from "../physics/dayNight.js";
 import { MATERIAL_NAMES } from "../physics/materials.js";
+import { ALBEDO_LAWS } from "../physics/climateAlbedo.js";
+import { OUTGOING_LAWS } from "../physics/climateOutgoing.js";
+import { CLIMATE_STARTS } from "../physics/climateSettings.js";
 import { parseQuantity, UNIT_TABLES, type QuantityKind } from "./units.js";
 
 /** A dimensional value: SI number or "<number> <unit>", converted to SI, with an optional range check. */
@@ -128,6 +131,43 @@ export const bodySchema = z
   })
   .describe("The body's surface: albedo, emissivity, heat capacity (direct, or a layer of a material)");
 
+export const climateSchema = z
+  .strictObject({
+    bands: boundedNumber("zonal: latitude bands, equal steps in x = sin latitude (equal areas); default 90", (v) => Number.isInteger(v) && v >= 1 && v <= 2000, "an integer from 1 to 2000").optional(),
+    diffusion: quantity("heatTransferCoefficient", "zonal: meridional diffusion D in −∂/∂x[D(1 − x²)∂T/∂x]; default 0.649 W/m2/K (North et al. 1981)", nonNegative("W/m2/K")).optional(),
+    outgoing: z
+      .strictObject({
+        law: z.enum(OUTGOING_LAWS, { error: `one of ${OUTGOING_LAWS.join(", ")}` }).describe("blackbody εσT⁴ (default), linear a + b(T − 273.15 K), grey σT⁴/(1 + 0.75τ)"),
+        a: quantity("flux", "linear: a; default 203.3 W/m2 (North et al. 1981)").optional(),
+        b: quantity("heatTransferCoefficient", "linear: b; default 2.09 W/m2/K (North et al. 1981)", positive("W/m2/K")).optional(),
+        opticalDepth: boundedNumber("grey: a fixed infrared optical depth τ; default τ = 0.79 (T/273 K)³ (Spiegel et al. 2008)", (v) => v >= 0, "a number ≥ 0").optional(),
+      })
+      .optional()
+      .describe("Outgoing longwave radiation I(T)"),
+    albedo: z
+      .strictObject({
+        law: z.enum(ALBEDO_LAWS, { error: `one of ${ALBEDO_LAWS.join(", ")}` }).describe("constant (body.albedo), step (ice below a temperature), smooth (0.525 − 0.245 tanh((T − 268 K)/5 K))"),
+        p2: boundedNumber("constant/step: coefficient of P₂(x) added to the ice-free albedo; default 0", () => true, "a number").optional(),
+        ice: boundedNumber("step: albedo of ice; default 0.62 (co-albedo 0.38, North et al. 1981)", (v) => v >= 0 && v <= 1, "a number from 0 to 1").optional(),
+        iceTemperature: quantity("temperature", "step: ice below this temperature; default -10 degC (North 1975)", positive("K")).optional(),
+        ramp: quantity("temperature", "step: width of the ramp between ice-free and ice, centred on iceTemperature; default 1 K", positive("K")).optional(),
+      })
+      .optional()
+      .describe("Albedo: body.albedo is the ice-free value"),
+    heatCapacity: z
+      .strictObject({
+        oceanFraction: boundedNumber("Share of each band under ocean", (v) => v >= 0 && v <= 1, "a number from 0 to 1"),
+        landHeatCapacity: quantity("arealHeatCapacity", "C_l; default 5.25e6 J/m2/K (Spiegel et al. 2008)", positive("J/m2/K")).optional(),
+        oceanHeatCapacity: quantity("arealHeatCapacity", "C_o; default 40 C_l (Spiegel et al. 2008)", positive("J/m2/K")).optional(),
+        freezing: z.boolean({ error: "true or false" }).optional().describe("Open water freezes below 273 K with ice's heat capacity (Spiegel et al. 2008); default true"),
+      })
+      .optional()
+      .describe("Heat capacity per band from land and ocean shares; default body.heatCapacity / body.layer everywhere"),
+    start: z.enum(CLIMATE_STARTS, { error: `one of ${CLIMATE_STARTS.join(", ")}` }).optional().describe("warm (320 K), cold (220 K) or both; default both"),
+    stepsPerOrbit: boundedNumber("Time steps per orbit (uniform in eccentric anomaly); default 360", (v) => Number.isInteger(v) && v >= 24 && v <= 100000, "an integer from 24 to 100000").optional(),
+  })
+  .describe("regime zonal: the globe as latitude bands coupled by meridional diffusion");
+
 const RATIO = /^\s*(\d+)\s*:\s*(\d+)\s*$/;
 
 export const spinSchema = z
@@ -177,6 +217,7 @@ export const scenarioSchema = z
       .describe("Regime: global (f = 1/4), dayside (1/2), substellar (1), daynight (two hemispheres), band (a latitude), point (a place); default global"),
     spin: spinSchema.optional(),
     surface: locationSchema.optional(),
+    climate: climateSchema.optional(),
     thresholds: z
       .tuple([quantity("temperature", "Low end", positive("K")), quantity("temperature", "High end", positive("K"))], {
         error: "a [low, high] pair of temperatures",

@@ -2,6 +2,7 @@
 import type { Command } from "commander";
 import { DEFAULT_RELATIVE_TOLERANCE, DEFAULT_SAMPLES, INTEGRATORS } from "../../defaults.js";
 import type { SimulateOptions } from "../../run/simulate.js";
+import type { ResolvedScenario } from "../../scenario/resolve.js";
 import { integerFlag, integratorFlag, quantityFlag, toleranceFlag, usage } from "../flags.js";
 import { out } from "../output.js";
 
@@ -45,6 +46,7 @@ async function runCommand(scenarioPath: string | undefined, flags: RunFlags): Pr
       import("../../report/text.js"),
     ]);
   const { resolved } = loadScenario(scenarioPath);
+  if (resolved.thermal.climate) return runZonal(resolved, flags, options, writeFileAtomic);
   if (resolved.thermal.column) {
     if (options.transient) throw usage("--from", JSON.stringify(flags.from ?? ""), "no transient mode for a conduction column yet (it runs to its periodic state)");
     // The column's periodicity and energy tolerance: 1e-6 unless --tolerance says otherwise.
@@ -65,6 +67,29 @@ async function runCommand(scenarioPath: string | undefined, flags: RunFlags): Pr
     if (flags.csv !== undefined) out(`\nseries written to ${flags.csv} (${sim.series.timeSeconds.length} rows)\n`);
     if (flags.svg !== undefined) out(`chart written to ${flags.svg}\n`);
   }
+}
+
+/** The zonal climate: its own solver and writers (one or two climates). */
+async function runZonal(resolved: ResolvedScenario, flags: RunFlags, options: SimulateOptions, writeFileAtomic: (path: string, text: string) => void): Promise<void> {
+  if (options.transient) throw usage("--from", JSON.stringify(flags.from ?? ""), "no transient mode for the zonal climate (it runs to its periodic climates from a warm and/or a cold start)");
+  if (options.integrator) throw usage("--integrator", JSON.stringify(flags.integrator), "none for the zonal climate (it has its own implicit stepper)");
+  const [{ simulateZonal, zonalCaseOf }, { zonalCsv, zonalDocument, zonalProfileSvg, zonalText }] = await Promise.all([
+    import("../../run/zonal.js"),
+    import("../../report/zonalReport.js"),
+  ]);
+  const zonal = zonalCaseOf(resolved.thermal);
+  const sim = simulateZonal(zonal);
+  const climate = resolved.thermal.climate!;
+  const samples = options.samples ?? DEFAULT_SAMPLES;
+  if (flags.csv !== undefined) writeFileAtomic(flags.csv, zonalCsv(resolved, zonal, sim, samples));
+  if (flags.svg !== undefined) writeFileAtomic(flags.svg, zonalProfileSvg(resolved.thermal.name, sim));
+  if (flags.json) {
+    out(JSON.stringify(zonalDocument(resolved, sim, climate), null, 2) + "\n");
+    return;
+  }
+  out(zonalText(resolved, sim, climate));
+  if (flags.csv !== undefined) out(`\nT(latitude, time) written to ${flags.csv} (${sim.climates.length * samples * sim.grid.count} rows)\n`);
+  if (flags.svg !== undefined) out(`annual-mean profile written to ${flags.svg}\n`);
 }
 
 export function registerRun(program: Command): void {
