@@ -184,6 +184,59 @@ describe("limits of the transport", () => {
   });
 });
 
+describe("a linear climate's time mean", () => {
+  it("solves the steady diffusion equation forced by the time-mean insolation (linear outgoing radiation, constant albedo)", () => {
+    // With I = A + B(T − 273.15 K) and a fixed albedo the band system is linear, so averaging it over a
+    // periodic orbit leaves the steady balance (1 − α)⟨Q⟩ − A − B(⟨T⟩ − 273.15 K) + transport(⟨T⟩) = 0
+    // (linearity alone; the steady system is solved here by dense elimination, independently of the stepper).
+    const bands = 24;
+    const c = zonalCase(
+      { bands, outgoing: NORTH_LINEAR, albedo: { law: "constant", value: 0.3, p2: 0.05 }, heatCapacity: { kind: "slab", heatCapacityJPerM2K: 4e7 }, stepsPerOrbit: 720 },
+      { obliquityRad: 50 * deg, equinoxTrueAnomalyRad: 0.8, orbit: { ...zonalCase({}).orbit, eccentricity: 0.35 } },
+    );
+    const means = simulateZonal(c).climates[0]!.summary.bands.map((b) => b.temperature.meanK);
+    // ⟨Q⟩ by the trapezoidal rule in E weighted by dt/dE, on 20,000 points (independent of the stepper).
+    const grid = bandGrid(bands);
+    const insolation = zonalInsolation(grid, { luminosityW: c.luminosityW, orbit: c.orbit, obliquityRad: c.obliquityRad, equinoxTrueAnomalyRad: c.equinoxTrueAnomalyRad });
+    const meanQ = new Float64Array(bands);
+    const row = new Float64Array(bands);
+    const points = 20_000;
+    let weight = 0;
+    for (let k = 0; k < points; k++) {
+      const E = (2 * Math.PI * k) / points;
+      const w = 1 - 0.35 * Math.cos(E);
+      insolation.at(E, row);
+      for (let j = 0; j < bands; j++) meanQ[j]! += w * row[j]!;
+      weight += w;
+    }
+    // The steady tridiagonal system (B + k_{j−1} + k_j) T_j − k_{j−1}T_{j−1} − k_j T_{j+1} = (1 − α_j)⟨Q_j⟩ − A + 273.15 B, by dense elimination.
+    const k = meridionalDiffusion(grid, 0.649).coupling;
+    const m = Array.from({ length: bands }, () => new Float64Array(bands + 1));
+    for (let j = 0; j < bands; j++) {
+      const alpha = 0.3 + 0.05 * legendreP2(grid.centreX[j]!);
+      m[j]![j] = NORTH.B + (j > 0 ? k[j - 1]! : 0) + (j < bands - 1 ? k[j]! : 0);
+      if (j > 0) m[j]![j - 1] = -k[j - 1]!;
+      if (j < bands - 1) m[j]![j + 1] = -k[j]!;
+      m[j]![bands] = (1 - alpha) * (meanQ[j]! / weight) - NORTH.A + ZERO_CELSIUS_K * NORTH.B;
+    }
+    for (let col = 0; col < bands; col++) {
+      for (let r = col + 1; r < bands; r++) {
+        const f = m[r]![col]! / m[col]![col]!;
+        for (let cc = col; cc <= bands; cc++) m[r]![cc]! -= f * m[col]![cc]!;
+      }
+    }
+    const steady = new Float64Array(bands);
+    for (let r = bands - 1; r >= 0; r--) {
+      let s = m[r]![bands]!;
+      for (let cc = r + 1; cc < bands; cc++) s -= m[r]![cc]! * steady[cc]!;
+      steady[r] = s / m[r]![r]!;
+    }
+    let worst = 0;
+    for (let j = 0; j < bands; j++) worst = Math.max(worst, Math.abs(means[j]! - steady[j]!));
+    expect(worst).toBeLessThan(0.01);
+  });
+});
+
 describe("energy and time stepping", () => {
   const oblique = { obliquityRad: 40 * deg, equinoxTrueAnomalyRad: 1, orbit: { semiMajorAxisM: 1.05 * ASTRONOMICAL_UNIT_M, eccentricity: 0.4, periodSeconds: YEAR, meanAnomalyAtStartRad: 0.7 } };
   const icy: Partial<ClimateSettings> = {

@@ -12,6 +12,8 @@ import { CalorbitError } from "../src/errors.js";
 import { zonalCsv, zonalDocument, zonalProfileSvg, zonalText, ZONAL_CSV_COLUMNS } from "../src/report/zonalReport.js";
 import { simulateZonal, zonalCaseOf } from "../src/run/zonal.js";
 import { resolveScenario } from "../src/scenario/resolve.js";
+import { columns, runCase } from "../src/sweep/runCase.js";
+import { parseAxis } from "../src/sweep/spec.js";
 
 const demo = parse(readFileSync(new URL("../scenarios/vaelor-zonal.yaml", import.meta.url), "utf8")) as Record<string, unknown> & { climate: Record<string, unknown> };
 /** The demo on a coarser grid (30 bands, 96 steps per orbit) to keep the suite fast. */
@@ -52,11 +54,11 @@ describe("the climate key", () => {
   });
 });
 
-describe("reports of a zonal run", () => {
-  const resolved = resolveScenario(small);
-  const zonal = zonalCaseOf(resolved.thermal);
-  const sim = simulateZonal(zonal);
+const resolved = resolveScenario(small);
+const zonal = zonalCaseOf(resolved.thermal);
+const sim = simulateZonal(zonal);
 
+describe("reports of a zonal run", () => {
   it("finds two climates in the demo: a partly iced warm one and a snowball", () => {
     expect(sim.startsAgree).toBe(false);
     expect(sim.climates.map((c) => c.start)).toEqual(["warm", "cold"]);
@@ -113,5 +115,24 @@ describe("reports of a zonal run", () => {
     expect(text).toContain("Periodic climate from a cold start");
     expect(text).toContain("keep different climates");
     expect(text).toMatch(/latitude\s+mean\s+min\s+max/);
+  });
+});
+
+describe("sweeps of the zonal climate", () => {
+  it("write the global metrics of each case: global mean, contrast, ice edge, habitable fraction, snowball, climates", () => {
+    const def = { scenario: small as Record<string, unknown>, design: { axes: [parseAxis("orbit.eccentricity=0.1,0.3")] }, relativeTolerance: 1e-8, format: "csv" as const };
+    const header = columns(def);
+    for (const name of ["global_mean_K", "equator_pole_contrast_K", "ice_edge_min_deg", "ice_edge_max_deg", "ice_edge_mean_deg", "ice_fraction", "habitable_fraction", "snowball", "climates"]) {
+      expect(header).toContain(name);
+    }
+    const row = runCase(def, { id: 1, values: [0.3] }).split(",");
+    const value = (name: string) => row[header.indexOf(name)]!;
+    expect(value("status")).toBe("ok");
+    const warm = sim.climates[0]!.summary;
+    expect(Number(value("global_mean_K"))).toBe(warm.globalMeanK);
+    expect(Number(value("habitable_fraction"))).toBe(warm.habitableFraction);
+    expect(Number(value("ice_edge_mean_deg"))).toBe(warm.iceEdge!.meanDeg);
+    expect(value("snowball")).toBe("0");
+    expect(value("climates")).toBe("2");
   });
 });

@@ -9,6 +9,7 @@ import { DEFAULT_RELATIVE_TOLERANCE, simulate } from "../run/simulate.js";
 import { columnToleranceFor, simulateColumn } from "../run/simulateColumn.js";
 import type { ThermalCase } from "../model/thermalCase.js";
 import type { TemperatureStats } from "../analysis/summarise.js";
+import { simulateZonal, zonalCaseOf } from "../run/zonal.js";
 import { VERSION } from "../version.js";
 import type { CaseValues, Design, Shard } from "./design.js";
 import { columnValue, setPath } from "./spec.js";
@@ -48,6 +49,15 @@ export const METRIC_COLUMNS = [
   "skin_depth_diurnal_m",
   "skin_depth_orbital_m",
   "T_deep_mean_K",
+  "global_mean_K",
+  "equator_pole_contrast_K",
+  "ice_edge_min_deg",
+  "ice_edge_max_deg",
+  "ice_edge_mean_deg",
+  "ice_fraction",
+  "habitable_fraction",
+  "snowball",
+  "climates",
 ] as const;
 
 type Metrics = Record<(typeof METRIC_COLUMNS)[number], number | string | null>;
@@ -197,6 +207,61 @@ function lumpedMetrics(thermal: ThermalCase, relativeTolerance: number): Metrics
     skin_depth_diurnal_m: null,
     skin_depth_orbital_m: null,
     T_deep_mean_K: null,
+    ...NO_CLIMATE,
+  };
+}
+
+const NO_CLIMATE = {
+  global_mean_K: null,
+  equator_pole_contrast_K: null,
+  ice_edge_min_deg: null,
+  ice_edge_max_deg: null,
+  ice_edge_mean_deg: null,
+  ice_fraction: null,
+  habitable_fraction: null,
+  snowball: null,
+  climates: null,
+};
+
+/**
+ * A zonal climate's row: the global metrics of its first climate (the warm start when both are
+ * solved), the shared columns from the global-mean temperature through the orbit, and `climates`
+ * = how many different climates the starts found (2: warm and cold starts disagree).
+ */
+function zonalMetrics(thermal: ThermalCase): Metrics {
+  const sim = simulateZonal(zonalCaseOf(thermal));
+  const first = sim.climates[0]!;
+  const s = first.summary;
+  return {
+    T_min_K: s.temperature.minK,
+    T_max_K: s.temperature.maxK,
+    T_mean_K: s.temperature.meanK,
+    T_swing_K: s.temperature.swingK,
+    Teq_min_K: null,
+    Teq_max_K: null,
+    Teq_mean_K: null,
+    lag_s: null,
+    damping_ratio: null,
+    tau_over_period: null,
+    period_s: s.periodSeconds,
+    time_in_range_fraction: null,
+    energy_residual: s.energyBalanceResidual,
+    integrator: "sdirk2",
+    iterations: first.solver.newtonIterations,
+    orbits: first.solver.orbitsIntegrated,
+    evaluations: null,
+    skin_depth_diurnal_m: null,
+    skin_depth_orbital_m: null,
+    T_deep_mean_K: null,
+    global_mean_K: s.globalMeanK,
+    equator_pole_contrast_K: s.equatorPoleContrastK,
+    ice_edge_min_deg: s.iceEdge?.minDeg ?? null,
+    ice_edge_max_deg: s.iceEdge?.maxDeg ?? null,
+    ice_edge_mean_deg: s.iceEdge?.meanDeg ?? null,
+    ice_fraction: s.iceFraction,
+    habitable_fraction: s.habitableFraction,
+    snowball: s.snowball ? 1 : 0,
+    climates: sim.climates.length,
   };
 }
 
@@ -217,6 +282,7 @@ function columnMetrics(thermal: ThermalCase, relativeTolerance: number): Metrics
     skin_depth_diurnal_m: s.skinDepths.diurnalM,
     skin_depth_orbital_m: s.skinDepths.orbitalM,
     T_deep_mean_K: s.depthProfile.at(-1)?.meanK ?? null,
+    ...NO_CLIMATE,
   };
 }
 
@@ -229,7 +295,11 @@ export function caseCells(def: SweepDefinition, c: CaseValues): Cell[] {
     const doc = structuredClone(def.scenario);
     def.design.axes.forEach((a, d) => setPath(doc, a.path, c.values[d]!));
     const { thermal } = resolveScenario(doc);
-    metrics = thermal.column ? columnMetrics(thermal, def.relativeTolerance) : lumpedMetrics(thermal, def.relativeTolerance);
+    metrics = thermal.climate
+      ? zonalMetrics(thermal)
+      : thermal.column
+        ? columnMetrics(thermal, def.relativeTolerance)
+        : lumpedMetrics(thermal, def.relativeTolerance);
   } catch (err) {
     status = `error: ${failureReason(err)}`.replace(/\s+/g, " ");
   }
