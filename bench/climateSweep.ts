@@ -15,6 +15,7 @@ const scenario = {
   orbit: { semiMajorAxis: "1 au", eccentricity: 0.0167 },
   body: { albedo: 0.3, emissivity: 1 },
   spin: { obliquity: "23.44 deg" },
+  regime: "zonal",
   climate: { bands: 90, diffusion: "0.5394 W/m2/K", outgoing: { law: "grey" }, albedo: { law: "smooth" }, heatCapacity: { oceanFraction: 0.7 }, start: "warm" },
 };
 const axes = [parseAxis("orbit.eccentricity=0:0.6:40"), parseAxis("spin.obliquity=0:1.5707963:25")];

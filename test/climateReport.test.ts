@@ -43,6 +43,19 @@ describe("the climate key", () => {
     expect(thermal.climate!.albedo).toMatchObject({ iceK: 268.15, rampK: 2 });
   });
 
+  it("belongs to regime zonal: alone it is refused, and regime zonal alone takes the defaults", () => {
+    const { regime: _regime, ...withoutRegime } = slab as Record<string, unknown>;
+    expect(() => resolveScenario(withoutRegime)).toThrow(CalorbitError);
+    try {
+      resolveScenario(withoutRegime);
+    } catch (error) {
+      expect((error as CalorbitError).problems.map((p) => p.path)).toEqual(["climate"]);
+    }
+    const { climate: _climate, ...regimeOnly } = slab as Record<string, unknown>;
+    const c = resolveScenario(regimeOnly).thermal.climate!;
+    expect(c).toMatchObject({ bands: 90, diffusionWPerM2K: 0.649, start: "both", stepsPerOrbit: 360, albedo: { law: "constant", value: 0.3 } });
+  });
+
   it("names each bad field, with the value given and what is allowed", () => {
     try {
       resolveScenario({ ...slab, climate: { bands: 0, start: "lukewarm", outgoing: { law: "purple" }, heatCapacity: { oceanFraction: 2 } } });

@@ -58,6 +58,9 @@ export interface ThermalCase {
   exchange?: HeatExchange;
   /** Shorthand for `heatStore: { kind: "column", column }`: a conduction column under the surface. */
   column?: ColumnSpec;
-  /** The zonal climate's settings (latitude bands, transport, radiation, ice): present for a zonal case. */
+  /**
+   * The zonal climate's settings (latitude bands, transport, radiation, ice): present exactly for a
+   * scenario with regime zonal, whose solver (src/run/zonal.ts) reads them; `regime` then holds global.
+   */
   climate?: ClimateSettings;
 }

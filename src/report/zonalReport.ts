@@ -104,7 +104,7 @@ export function zonalDocument(resolved: ResolvedScenario, sim: ZonalSimulation, 
   const first = sim.climates[0]!;
   return {
     calorbit: { version: VERSION },
-    scenario: { ...resolvedScenarioRecord(resolved), climate },
+    scenario: { ...resolvedScenarioRecord(resolved), regime: "zonal", climate },
     summary: {
       start: first.start,
       ...first.summary,
@@ -121,7 +121,7 @@ export const ZONAL_CSV_COLUMNS = ["climate", "time_s", "orbit_phase", "true_anom
 export function zonalCsv(resolved: ResolvedScenario, zonal: ZonalCase, sim: ZonalSimulation, samples: number): string {
   const lines: string[] = [
     `# calorbit ${VERSION}`,
-    `# scenario (SI units): ${JSON.stringify({ ...resolvedScenarioRecord(resolved), climate: zonal.climate })}`,
+    `# scenario (SI units): ${JSON.stringify({ ...resolvedScenarioRecord(resolved), regime: "zonal", climate: zonal.climate })}`,
     `# zonal climate: one row per climate, time and latitude band (band centres); orbit_phase = mean anomaly / 360 deg (0 at periastron); between step ends T is linear in the eccentric anomaly`,
     ZONAL_CSV_COLUMNS.join(","),
   ];

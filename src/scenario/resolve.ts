@@ -133,7 +133,7 @@ function fromParsed(s: ParsedScenario, raw: unknown): ResolvedScenario {
       specificHeatJPerKgK: m.specificHeatJPerKgK,
       source: m.source,
     };
-  } else if (s.climate?.heatCapacity !== undefined) {
+  } else if (s.regime === "zonal" && s.climate?.heatCapacity !== undefined) {
     // The bands take their heat capacity from climate.heatCapacity; this slot is only reported.
     const c = resolveClimate(s.climate, { albedo: s.body.albedo, emissivity: 1, heatCapacityJPerM2K: 1 }).heatCapacity;
     heatCapacity = c.kind === "surface" ? c.oceanFraction * c.oceanHeatCapacityJPerM2K + (1 - c.oceanFraction) * c.landHeatCapacityJPerM2K : c.heatCapacityJPerM2K;
@@ -146,6 +146,9 @@ function fromParsed(s: ParsedScenario, raw: unknown): ResolvedScenario {
   if (s.spin?.period !== undefined && s.spin.orbitRatio !== undefined) {
     problem("spin.orbitRatio", "either spin.period or spin.orbitRatio, not both");
   }
+  const zonal = s.regime === "zonal";
+  if (s.climate !== undefined && !zonal) problem("climate", "climate settings only with regime: zonal");
+  if (zonal && column !== undefined) problem("body.column", "no conduction column under the zonal climate's bands (body.heatCapacity, body.layer or climate.heatCapacity)");
   if (s.thresholds && !(s.thresholds[0] < s.thresholds[1])) {
     problem("thresholds", "a [low, high] pair with low < high");
   }
@@ -174,7 +177,8 @@ function fromParsed(s: ParsedScenario, raw: unknown): ResolvedScenario {
       heatCapacityJPerM2K: heatCapacity,
       internalFluxWPerM2: s.body.internalFlux ?? 0,
     },
-    regime: s.regime ?? "global",
+    // A zonal case keeps "global" here (the globe as a whole); its solver reads `climate`.
+    regime: s.regime === undefined || s.regime === "zonal" ? "global" : s.regime,
     ...(s.thresholds ? { windowK: [s.thresholds[0], s.thresholds[1]] as const } : {}),
     exchange: {
       recirculation: s.body.recirculation ?? 0,
@@ -184,7 +188,7 @@ function fromParsed(s: ParsedScenario, raw: unknown): ResolvedScenario {
     location: { latitudeRad: s.surface?.latitude ?? 0, longitudeRad: s.surface?.longitude ?? 0 },
   };
   if (column !== undefined) thermal.column = columnSpec(column, s.body.internalFlux ?? 0);
-  if (s.climate !== undefined) thermal.climate = resolveClimate(s.climate, thermal.surface);
+  if (zonal) thermal.climate = resolveClimate(s.climate, { albedo: s.body.albedo, emissivity: s.body.emissivity ?? 1, heatCapacityJPerM2K: heatCapacity });
   const n = (2 * Math.PI) / periodSeconds;
   const ratio = s.spin?.orbitRatio !== undefined ? parseRatio(s.spin.orbitRatio) : s.spin?.period === undefined ? { spin: 1, orbit: 1 } : undefined;
   thermal.spin = {

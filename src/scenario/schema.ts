@@ -131,6 +131,12 @@ export const bodySchema = z
   })
   .describe("The body's surface: albedo, emissivity, heat capacity (direct, or a layer of a material)");
 
+/**
+ * The regimes a scenario may name: the engine's table, plus `zonal`, the climate of latitude bands,
+ * which has its own solver (src/run/zonal.ts) and is selected through `climate` rather than a table row.
+ */
+export const SCENARIO_REGIMES = [...REGIMES, "zonal"] as const;
+
 export const climateSchema = z
   .strictObject({
     bands: boundedNumber("zonal: latitude bands, equal steps in x = sin latitude (equal areas); default 90", (v) => Number.isInteger(v) && v >= 1 && v <= 2000, "an integer from 1 to 2000").optional(),
@@ -212,9 +218,9 @@ export const scenarioSchema = z
     orbit: orbitSchema,
     body: bodySchema,
     regime: z
-      .enum(REGIMES, { error: `one of ${REGIMES.join(", ")}` })
+      .enum(SCENARIO_REGIMES, { error: `one of ${SCENARIO_REGIMES.join(", ")}` })
       .optional()
-      .describe("Regime: global (f = 1/4), dayside (1/2), substellar (1), daynight (two hemispheres), band (a latitude), point (a place); default global"),
+      .describe("Regime: global (f = 1/4), dayside (1/2), substellar (1), daynight (two hemispheres), band (a latitude), point (a place), zonal (the globe in latitude bands: see climate); default global"),
     spin: spinSchema.optional(),
     surface: locationSchema.optional(),
     climate: climateSchema.optional(),
