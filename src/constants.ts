@@ -45,6 +45,15 @@ export const JULIAN_YEAR_S = 365.25 * DAY_S;
 /** 0 °C in kelvin (exact). SI definition of the Celsius scale. */
 export const ZERO_CELSIUS_K = 273.15;
 
+/** Planck constant h, J s (exact). CODATA 2018. */
+export const PLANCK_CONSTANT = 6.62607015e-34;
+
+/** Speed of light in vacuum c, m s⁻¹ (exact). SI definition of the metre. */
+export const SPEED_OF_LIGHT_M_PER_S = 299_792_458;
+
+/** Boltzmann constant k, J K⁻¹ (exact). CODATA 2018. */
+export const BOLTZMANN_CONSTANT = 1.380649e-23;
+
 // Latitudinal energy-balance (zonal climate) parameters: published defaults, not laws of nature.
 
 /** North's linear outgoing radiation I = A + B (T − 0 °C): A, W m⁻². North, Cahalan & Coakley 1981, Rev. Geophys. 19, 91. */

@@ -1,0 +1,177 @@
+/**
+ * What a distant observer receives from a planet whose surface temperature map is known through
+ * the orbit: the planet-to-star flux ratio in a passband, the phase angle, the sub-observer and
+ * substellar points, the disc's brightness temperature, and the transit and occultation.
+ *
+ * Each visible cell contributes its band radiance × its projected area: Lambertian emission,
+ * F_p = Σ I(T_k) μ_k ΔA_k / D² with μ_k = n̂_k · ô > 0. The star is a uniform blackbody disc,
+ * F★ = π R★² I(T★) / D² (no limb darkening). During the occultation the hidden share of the
+ * planet's disc is taken as uniformly bright; during the transit the starlight blocked is the
+ * overlap of two uniform discs. Reflected starlight is not included.
+ */
+import type { BandRadiance } from "../physics/planck.js";
+import { coveredFraction, observerDirection, phaseAngle, skyOffset, type Observer } from "../physics/observer.js";
+import { meanMotion, type Orbit } from "../physics/orbit.js";
+import type { CellFrame, LonLatGrid } from "../physics/surfaceGrid.js";
+
+const TWO_PI = 2 * Math.PI;
+
+/** A temperature map through time and the geometry needed to observe it. */
+export interface MapHistory {
+  grid: LonLatGrid;
+  orbit: Orbit;
+  frame: CellFrame;
+  /** Sample times, s from t = 0, and the matching unwrapped mean anomaly, true anomaly and distance. */
+  timeSeconds: Float64Array;
+  meanAnomalyRad: Float64Array;
+  trueAnomalyRad: Float64Array;
+  distanceM: Float64Array;
+  /** temperatureK[s · cells + k]: cell k at sample s, K. */
+  temperatureK: Float64Array;
+  /** Substellar longitude in the cell frame at each sample, rad. */
+  substellarLongitudeRad: Float64Array;
+}
+
+export interface Telescope {
+  observer: Observer;
+  band: BandRadiance;
+  planetRadiusM: number;
+  starRadiusM: number;
+  starTemperatureK: number;
+}
+
+export interface PhaseCurveSeries {
+  /** Planet / star flux in the passband (the planet partly hidden during the occultation). */
+  fluxRatio: Float64Array;
+  /** The same without the occultation: the planet's own emission seen from the observer. */
+  planetOnlyFluxRatio: Float64Array;
+  /** Share of the star's disc covered by the planet (transit), 0 outside transit. */
+  transitCoveredFraction: Float64Array;
+  phaseAngleRad: Float64Array;
+  subObserverLongitudeRad: Float64Array;
+  subObserverLatitudeRad: Float64Array;
+  /** Brightness temperature of the visible disc in the passband, K. */
+  brightnessTemperatureK: Float64Array;
+}
+
+/** Direction to the observer in the cell frame, as right ascension and declination (rad) in the body's equatorial frame. */
+function observerInEquatorialFrame(frame: CellFrame, observer: Observer): { ra: number; dec: number } {
+  const [ox, oy, oz] = observerDirection(observer);
+  const beta = Math.asin(Math.max(-1, Math.min(1, oz)));
+  // ecliptic longitude measured from the equinox direction, which lies at orbit-frame longitude ν_eq + π
+  const l = Math.atan2(oy, ox) - frame.equinoxTrueAnomalyRad - Math.PI;
+  const x = Math.cos(beta) * Math.cos(l);
+  const y = Math.cos(beta) * Math.sin(l);
+  const st = Math.sin(frame.obliquityRad);
+  const ct = Math.cos(frame.obliquityRad);
+  const yEq = y * ct - oz * st;
+  const zEq = y * st + oz * ct;
+  return { ra: Math.atan2(yEq, x), dec: Math.asin(Math.max(-1, Math.min(1, zEq))) };
+}
+
+/** Band radiance of every cell at every sample, W m⁻² sr⁻¹ (computed once per passband). */
+export function cellRadiance(history: MapHistory, band: BandRadiance): Float64Array {
+  const t = history.temperatureK;
+  const out = new Float64Array(t.length);
+  for (let i = 0; i < t.length; i++) out[i] = band.at(t[i]!);
+  return out;
+}
+
+/**
+ * The phase curve for one observer and passband. `radiance` may be passed in (from
+ * `cellRadiance`) to re-evaluate a new inclination without recomputing band radiances.
+ */
+export function phaseCurve(history: MapHistory, telescope: Telescope, radiance = cellRadiance(history, telescope.band)): PhaseCurveSeries {
+  const { grid, orbit, frame } = history;
+  const count = history.timeSeconds.length;
+  const cells = grid.longitudes * grid.latitudes;
+  const { observer, planetRadiusM: rp, starRadiusM: rs } = telescope;
+  const starRadiance = telescope.band.at(telescope.starTemperatureK);
+  const fluxScale = (4 * rp * rp) / (rs * rs * starRadiance);
+  const { ra, dec } = observerInEquatorialFrame(frame, observer);
+  const alphaAtPeriastron = Math.atan2(Math.cos(frame.obliquityRad) * Math.sin(-frame.equinoxTrueAnomalyRad), Math.cos(-frame.equinoxTrueAnomalyRad));
+  const n = meanMotion(orbit);
+  const sinDec = Math.sin(dec);
+  const cosDec = Math.cos(dec);
+  const out: PhaseCurveSeries = {
+    fluxRatio: new Float64Array(count),
+    planetOnlyFluxRatio: new Float64Array(count),
+    transitCoveredFraction: new Float64Array(count),
+    phaseAngleRad: new Float64Array(count),
+    subObserverLongitudeRad: new Float64Array(count),
+    subObserverLatitudeRad: new Float64Array(count).fill(dec),
+    brightnessTemperatureK: new Float64Array(count),
+  };
+  const { normalX, normalY, normalZ, areaFraction } = grid;
+  for (let s = 0; s < count; s++) {
+    const sinceperiastron = history.meanAnomalyRad[s]! / n;
+    const lon = ra - alphaAtPeriastron - frame.rateRadPerSecond * sinceperiastron;
+    const ox = cosDec * Math.cos(lon);
+    const oy = cosDec * Math.sin(lon);
+    let sum = 0;
+    let projected = 0;
+    const base = s * cells;
+    for (let k = 0; k < cells; k++) {
+      const mu = normalX[k]! * ox + normalY[k]! * oy + normalZ[k]! * sinDec;
+      if (mu > 0) {
+        const w = mu * areaFraction[k]!;
+        sum += radiance[base + k]! * w;
+        projected += w;
+      }
+    }
+    const own = sum * fluxScale;
+    const { separationM, towardObserverM } = skyOffset(observer, history.trueAnomalyRad[s]!, history.distanceM[s]!);
+    const hidden = towardObserverM < 0 ? coveredFraction(rs, rp, separationM) : 0;
+    out.planetOnlyFluxRatio[s] = own;
+    out.fluxRatio[s] = own * (1 - hidden);
+    out.transitCoveredFraction[s] = towardObserverM > 0 ? coveredFraction(rp, rs, separationM) : 0;
+    out.phaseAngleRad[s] = phaseAngle(observer, history.trueAnomalyRad[s]!);
+    out.subObserverLongitudeRad[s] = lon - TWO_PI * Math.round(lon / TWO_PI);
+    // disc-averaged intensity: Σ I μ ΔA over the projected disc area Σ μ ΔA (= 1/4 of the sphere's area)
+    out.brightnessTemperatureK[s] = projected > 0 ? telescope.band.brightnessTemperature(sum / projected) : 0;
+  }
+  return out;
+}
+
+export interface PhaseCurveSummary {
+  maxFluxRatio: number;
+  minFluxRatio: number;
+  timeOfMaxSeconds: number;
+  /** Time of the maximum after the periastron passage that precedes it, s. */
+  timeOfMaxAfterPeriastronSeconds: number;
+}
+
+/** Extremes of the planet's own emission (outside the occultation), the maximum's time refined by a parabola through three samples. */
+export function phaseCurveSummary(history: MapHistory, series: PhaseCurveSeries): PhaseCurveSummary {
+  const f = series.planetOnlyFluxRatio;
+  const t = history.timeSeconds;
+  let best = 0;
+  let min = Infinity;
+  for (let s = 0; s < f.length; s++) {
+    if (f[s]! > f[best]!) best = s;
+    min = Math.min(min, f[s]!);
+  }
+  let tMax = t[best]!;
+  let fMax = f[best]!;
+  if (best > 0 && best < f.length - 1) {
+    const a = f[best - 1]!;
+    const b = f[best]!;
+    const c = f[best + 1]!;
+    const denominator = a - 2 * b + c;
+    if (denominator < 0) {
+      const shift = (0.5 * (a - c)) / denominator;
+      const h = 0.5 * (t[best + 1]! - t[best - 1]!);
+      tMax = t[best]! + shift * h;
+      fMax = b - 0.25 * (a - c) * shift;
+    }
+  }
+  const period = history.orbit.periodSeconds;
+  const meanAnomalyAtMax = history.orbit.meanAnomalyAtStartRad + meanMotion(history.orbit) * tMax;
+  const sincePeriastron = ((meanAnomalyAtMax % TWO_PI) + TWO_PI) % TWO_PI;
+  return {
+    maxFluxRatio: fMax,
+    minFluxRatio: min,
+    timeOfMaxSeconds: tMax,
+    timeOfMaxAfterPeriastronSeconds: (sincePeriastron / TWO_PI) * period,
+  };
+}
