@@ -11,7 +11,7 @@ import { keplerPeriodSeconds } from "../src/physics/orbit.js";
 import { BandRadiance, bandRadianceDirect, planckRadiance } from "../src/physics/planck.js";
 import { simulateMap, type MapCase } from "../src/run/simulateMap.js";
 import { resolveScenario } from "../src/scenario/resolve.js";
-import { simulate } from "../src/simulate.js";
+import { simulate } from "../src/run/simulate.js";
 
 const DEG = Math.PI / 180;
 const sunTemperature = (SOLAR_LUMINOSITY_W / (4 * Math.PI * SOLAR_RADIUS_M ** 2 * STEFAN_BOLTZMANN)) ** 0.25;
@@ -198,5 +198,44 @@ describe("map regime: the surface through the orbit", () => {
     const lead = occultationSeconds - summary.timeOfMaxSeconds;
     expect(lead).toBeGreaterThan(0.01 * c.orbit.periodSeconds);
     expect(lead).toBeLessThan(0.25 * c.orbit.periodSeconds);
+  });
+});
+
+describe("map regime beside a published measurement (a comparison, not a fit)", () => {
+  it("puts HAT-P-2b's 4.5 µm phase-curve peak within a few hours after periastron, as Lewis et al. (2013, ApJ 766, 95) measured (4.39–5.84 h)", () => {
+    // Orbit and star from memory of Lewis et al. (2013) and the discovery papers, not checked against the printed
+    // tables: P = 5.6334729 d, e = 0.517, ω = 188.09°, i = 86.72°, M★ = 1.36 M☉, R★ = 1.64 R☉, T★ = 6290 K,
+    // R_p = 0.951 R_J. Spin 3:1, near the pseudo-synchronous rate for e = 0.52 (Hut 1981, A&A 99, 126; from memory).
+    const periodSeconds = 5.6334729 * DAY_S;
+    const massParameter = 1.36 * SOLAR_MASS_PARAMETER;
+    const a = Math.cbrt((massParameter * periodSeconds ** 2) / (4 * Math.PI ** 2));
+    const starRadius = 1.64 * SOLAR_RADIUS_M;
+    const starTemperature = 6290;
+    const c: MapCase = {
+      orbit: { semiMajorAxisM: a, eccentricity: 0.517, periodSeconds, meanAnomalyAtStartRad: 0 },
+      luminosityW: 4 * Math.PI * starRadius ** 2 * STEFAN_BOLTZMANN * starTemperature ** 4,
+      albedo: 0.05,
+      emissivity: 1,
+      heatCapacityJPerM2K: 8e6,
+      internalFluxWPerM2: 0,
+      spin: { rateRadPerSecond: (3 * 2 * Math.PI) / periodSeconds, obliquityRad: 0, equinoxTrueAnomalyRad: 0, ratio: { spin: 3, orbit: 1 } },
+      windRadPerSecond: 0,
+      longitudes: 24,
+      latitudes: 12,
+    };
+    const sim = simulateMap(c, { samples: 600 });
+    expect(sim.radiativeTimeSeconds / 3600).toBeGreaterThan(1); // "a radiative time of a few hours"
+    expect(sim.radiativeTimeSeconds / 3600).toBeLessThan(8);
+    const telescope = {
+      observer: { inclinationRad: 86.72 * DEG, argumentOfPeriastronRad: 188.09 * DEG, longitudeOfNodeRad: 0 },
+      band: new BandRadiance({ kind: "tophat", fromM: 4.0e-6, toM: 5.0e-6 }),
+      planetRadiusM: 0.951 * JUPITER_EQUATORIAL_RADIUS_M,
+      starRadiusM: starRadius,
+      starTemperatureK: starTemperature,
+    };
+    const summary = phaseCurveSummary(sim.history, phaseCurve(sim.history, telescope));
+    const hours = summary.timeOfMaxAfterPeriastronSeconds / 3600;
+    expect(hours).toBeGreaterThan(0);
+    expect(Math.abs(hours - 5.84)).toBeLessThan(4);
   });
 });

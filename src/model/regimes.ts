@@ -16,7 +16,7 @@ import { singleCell, type Surface } from "./surface.js";
 import type { ThermalCase } from "./thermalCase.js";
 
 /** Every regime calorbit integrates, in menu order. */
-export const REGIMES = ["global", "dayside", "substellar", "daynight", "band", "point"] as const;
+export const REGIMES = ["global", "dayside", "substellar", "daynight", "band", "point", "map"] as const;
 export type Regime = (typeof REGIMES)[number];
 
 /** Scenario fields a regime reads beyond star, orbit and body (the reports describe exactly these). */
@@ -139,6 +139,21 @@ export const REGIME_TABLE: Readonly<Record<Regime, RegimeEntry>> = {
         solarDaySeconds: solarDaySeconds(spin.rateRadPerSecond, n),
         forcingHasCorners: true,
       });
+    },
+    exchange: () => NO_EXCHANGE,
+  },
+  map: {
+    words: "a longitude × latitude grid of cells, and what a distant observer receives",
+    menuLabel: "surface map",
+    colour: "#56B4E9",
+    heatStores: ["slab"],
+    fields: ["spin.rate", "spin.axis"],
+    // Hundreds of cells that exchange no heat, each solved alone, and an observer's phase curve:
+    // src/run/simulateMap.ts and src/run/observeMap.ts, reached by `calorbit run` and `calorbit view`.
+    surface() {
+      throw new CalorbitError("INVALID_ARGUMENT", "the map regime has its own cell-by-cell solve", [
+        { path: "regime", given: "map", allowed: "calorbit run or calorbit view on the map scenario (not a single-surface solve)" },
+      ]);
     },
     exchange: () => NO_EXCHANGE,
   },

@@ -6,6 +6,8 @@ import type { HeatExchange } from "../physics/dayNight.js";
 import type { SurfaceProperties } from "../physics/energyBalance.js";
 import type { Orbit } from "../physics/orbit.js";
 import type { ClimateSettings } from "../physics/climateSettings.js";
+import type { Observer } from "../physics/observer.js";
+import type { Passband } from "../physics/planck.js";
 import type { Star } from "../physics/star.js";
 import type { ColumnSpec, HeatStore } from "./heatStore.js";
 import type { Regime } from "./regimes.js";
@@ -63,4 +65,23 @@ export interface ThermalCase {
    * scenario with regime zonal, whose solver (src/run/zonal.ts) reads them; `regime` then holds global.
    */
   climate?: ClimateSettings;
+  /** The map regime's grid (defaults 36 × 18, no wind). */
+  map?: MapSpec;
+  /** A distant observer, for the map regime's phase curve. */
+  observer?: ObserverSpec;
+  /** The body's radius, m (the map's flux ratio needs it). */
+  bodyRadiusM?: number;
+}
+
+/** The map regime's grid: equal-angle cells, and a solid-body wind relative to the ground. */
+export interface MapSpec {
+  longitudes: number;
+  latitudes: number;
+  /** Wind angular speed relative to the ground, rad s⁻¹ (eastward positive). */
+  windRadPerSecond: number;
+}
+
+/** What a telescope sees: the orbit's orientation and the passband (a file is read by the CLI into a table). */
+export interface ObserverSpec extends Observer {
+  passband: Passband | { kind: "file"; path: string };
 }

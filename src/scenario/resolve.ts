@@ -149,6 +149,16 @@ function fromParsed(s: ParsedScenario, raw: unknown): ResolvedScenario {
   const zonal = s.regime === "zonal";
   if (s.climate !== undefined && !zonal) problem("climate", "climate settings only with regime: zonal");
   if (zonal && column !== undefined) problem("body.column", "no conduction column under the zonal climate's bands (body.heatCapacity, body.layer or climate.heatCapacity)");
+  const passband = s.observer?.passband;
+  if (passband !== undefined && typeof passband === "object" && "from" in passband && !(passband.from < passband.to)) {
+    problem("observer.passband", "a top-hat {from, to} with from < to");
+  }
+  if (passband !== undefined && typeof passband === "object" && "wavelengths" in passband) {
+    const { wavelengths: l, response: r } = passband;
+    if (l.length < 2 || l.length !== r.length || l.some((x, i) => i > 0 && !(x > l[i - 1]!)) || r.some((x) => !(x >= 0))) {
+      problem("observer.passband", "a table of at least two rows: wavelengths increasing, as many responses (each ≥ 0)");
+    }
+  }
   if (s.thresholds && !(s.thresholds[0] < s.thresholds[1])) {
     problem("thresholds", "a [low, high] pair with low < high");
   }
@@ -189,6 +199,11 @@ function fromParsed(s: ParsedScenario, raw: unknown): ResolvedScenario {
   };
   if (column !== undefined) thermal.column = columnSpec(column, s.body.internalFlux ?? 0);
   if (zonal) thermal.climate = resolveClimate(s.climate, { albedo: s.body.albedo, emissivity: s.body.emissivity ?? 1, heatCapacityJPerM2K: heatCapacity });
+  if (s.map !== undefined || thermal.regime === ("map" as string)) {
+    thermal.map = { longitudes: s.map?.longitudes ?? 36, latitudes: s.map?.latitudes ?? 18, windRadPerSecond: s.map?.wind ?? 0 };
+  }
+  if (s.body.radius !== undefined) thermal.bodyRadiusM = s.body.radius;
+  if (s.observer !== undefined) thermal.observer = observerSpec(s.observer);
   const n = (2 * Math.PI) / periodSeconds;
   const ratio = s.spin?.orbitRatio !== undefined ? parseRatio(s.spin.orbitRatio) : s.spin?.period === undefined ? { spin: 1, orbit: 1 } : undefined;
   thermal.spin = {
@@ -202,6 +217,27 @@ function fromParsed(s: ParsedScenario, raw: unknown): ResolvedScenario {
     heatCapacityOrigin,
     periodOrigin: s.orbit.period !== undefined ? "given" : "kepler",
     ...(s.description !== undefined ? { description: s.description } : {}),
+  };
+}
+
+type ObserverInput = NonNullable<ParsedScenario["observer"]>;
+
+/** The observer in SI; a passband file stays a path for the CLI to read. */
+function observerSpec(o: ObserverInput): NonNullable<ThermalCase["observer"]> {
+  const p = o.passband ?? "bolometric";
+  const passband: NonNullable<ThermalCase["observer"]>["passband"] =
+    p === "bolometric"
+      ? { kind: "bolometric" }
+      : "file" in p
+        ? { kind: "file", path: p.file }
+        : "from" in p
+          ? { kind: "tophat", fromM: p.from, toM: p.to }
+          : { kind: "table", wavelengthM: p.wavelengths, response: p.response };
+  return {
+    inclinationRad: o.inclination,
+    argumentOfPeriastronRad: o.argumentOfPeriastron,
+    longitudeOfNodeRad: o.longitudeOfNode ?? 0,
+    passband,
   };
 }
 

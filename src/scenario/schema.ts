@@ -114,6 +114,7 @@ export const bodySchema = z
     layer: layerSchema.optional(),
     column: columnSchema.optional(),
     internalFlux: quantity("flux", "Internal heat flux q; default 0", nonNegative("W/m2")).optional(),
+    radius: quantity("length", "The body's radius (map: the planet's radius, for the flux an observer receives)", positive("m")).optional(),
     recirculation: boundedNumber(
       "daynight: recirculation efficiency ε ∈ [0, 1], the fraction of absorbed power carried to the night side",
       (r) => r >= 0 && r <= 1,
@@ -205,6 +206,44 @@ export const locationSchema = z
   .partial()
   .describe("A place on the surface (band: latitude; point: latitude and longitude); default 0, 0");
 
+export const mapSchema = z
+  .strictObject({
+    longitudes: boundedNumber("map: cells round the equator, equal steps in longitude; default 36", (k) => Number.isInteger(k) && k >= 4 && k <= 720, "a whole number from 4 to 720"),
+    latitudes: boundedNumber("map: cells from pole to pole, equal steps in latitude; default 18", (k) => Number.isInteger(k) && k >= 2 && k <= 360, "a whole number from 2 to 360"),
+    wind: quantity("angularRate", "map: a solid-body wind carrying the surface layer eastward relative to the ground (negative: westward); default 0"),
+  })
+  .partial()
+  .describe("The map regime's longitude × latitude grid of cells and an optional solid-body wind");
+
+const wavelength = (description: string) => quantity("length", description, positive("m"));
+
+export const passbandSchema = z
+  .union(
+    [
+      z.literal("bolometric"),
+      z.strictObject({ from: wavelength("Short end of a top-hat passband"), to: wavelength("Long end of a top-hat passband") }),
+      z.strictObject({
+        wavelengths: z.array(wavelength("A wavelength of the response table"), { error: "a list of wavelengths" }),
+        response: z.array(z.number({ error: "a number ≥ 0" }), { error: "a list of responses" }),
+      }),
+      z.strictObject({ file: z.string({ error: "a file path" }).describe("A CSV of (wavelength, response), relative to the scenario; the header names the wavelength unit, e.g. wavelength_um") }),
+    ],
+    { error: 'bolometric, {from, to}, {wavelengths, response} or {file}' },
+  )
+  .describe("What the detector sees: bolometric, a top-hat {from, to}, a response table, or a response file");
+
+export const observerSchema = z
+  .strictObject({
+    inclination: quantity("angle", "Inclination of the orbit to the sky plane, 0–180° (90°: edge-on)", {
+      ok: (v) => v >= 0 && v <= Math.PI + 1e-12,
+      allowed: "an angle from 0 to 180 deg",
+    }),
+    argumentOfPeriastron: quantity("angle", "Argument of periastron ω of the planet's orbit; the transit is at true anomaly 90° − ω"),
+    longitudeOfNode: quantity("angle", "Longitude of the ascending node (turns the sky picture; no flux depends on it)").optional(),
+    passband: passbandSchema.optional(),
+  })
+  .describe("A distant observer (map regime): the orbit's orientation and the passband");
+
 export function parseRatio(text: string): { spin: number; orbit: number } {
   const m = RATIO.exec(text)!;
   return { spin: Number(m[1]), orbit: Number(m[2]) };
@@ -224,6 +263,8 @@ export const scenarioSchema = z
     spin: spinSchema.optional(),
     surface: locationSchema.optional(),
     climate: climateSchema.optional(),
+    map: mapSchema.optional(),
+    observer: observerSchema.optional(),
     thresholds: z
       .tuple([quantity("temperature", "Low end", positive("K")), quantity("temperature", "High end", positive("K"))], {
         error: "a [low, high] pair of temperatures",

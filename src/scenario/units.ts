@@ -7,6 +7,8 @@ import {
   DAY_S,
   JULIAN_YEAR_S,
   SOLAR_LUMINOSITY_W,
+  EARTH_EQUATORIAL_RADIUS_M,
+  JUPITER_EQUATORIAL_RADIUS_M,
   SOLAR_MASS_KG,
   SOLAR_RADIUS_M,
   ZERO_CELSIUS_K,
@@ -21,7 +23,8 @@ export type QuantityKind =
   | "angle"
   | "arealHeatCapacity"
   | "flux"
-  | "heatTransferCoefficient";
+  | "heatTransferCoefficient"
+  | "angularRate";
 
 interface UnitTable {
   /** SI unit, as written in messages and CSV headers. */
@@ -35,7 +38,18 @@ const scale = (factor: number) => (v: number) => v * factor;
 export const UNIT_TABLES: Readonly<Record<QuantityKind, UnitTable>> = {
   length: {
     si: "m",
-    units: { m: scale(1), cm: scale(0.01), mm: scale(0.001), km: scale(1e3), au: scale(ASTRONOMICAL_UNIT_M), Rsun: scale(SOLAR_RADIUS_M) },
+    units: {
+      m: scale(1),
+      cm: scale(0.01),
+      mm: scale(0.001),
+      um: scale(1e-6),
+      nm: scale(1e-9),
+      km: scale(1e3),
+      au: scale(ASTRONOMICAL_UNIT_M),
+      Rearth: scale(EARTH_EQUATORIAL_RADIUS_M),
+      Rjup: scale(JUPITER_EQUATORIAL_RADIUS_M),
+      Rsun: scale(SOLAR_RADIUS_M),
+    },
   },
   time: {
     si: "s",
@@ -51,6 +65,7 @@ export const UNIT_TABLES: Readonly<Record<QuantityKind, UnitTable>> = {
   },
   flux: { si: "W/m2", units: { "W/m2": scale(1), "mW/m2": scale(1e-3) } },
   heatTransferCoefficient: { si: "W/m2/K", units: { "W/m2/K": scale(1) } },
+  angularRate: { si: "rad/s", units: { "rad/s": scale(1), "deg/s": scale(Math.PI / 180), "deg/h": scale(Math.PI / 180 / 3600), "deg/d": scale(Math.PI / 180 / DAY_S) } },
 };
 
 /** Spellings folded to one canonical form before lookup: "J m-2 K-1", "J/(m2 K)", "J/m^2/K" → "J/m2/K". */
@@ -64,7 +79,7 @@ function canonicalUnit(unit: string): string {
   u = u.replace(/\/\(([^)]*)\)/g, (_m, inner: string) => "/" + inner.trim().split(/\s+/).join("/"));
   const aliases: Record<string, string> = {
     AU: "au", day: "d", days: "d", year: "yr", years: "yr", hr: "h", sec: "s", degrees: "deg", "°": "deg", "°C": "degC", C: "degC",
-    "L☉": "Lsun", "M☉": "Msun", "R☉": "Rsun",
+    "L☉": "Lsun", "M☉": "Msun", "R☉": "Rsun", "µm": "um", "μm": "um", micron: "um", RJ: "Rjup", "R⊕": "Rearth", "deg/day": "deg/d",
   };
   return aliases[u] ?? u;
 }

@@ -16,6 +16,8 @@ interface RunFlags {
   from?: string;
   orbits?: string;
   tolerance: string;
+  mapCsv?: string;
+  mapAt?: string;
 }
 
 async function runCommand(scenarioPath: string | undefined, flags: RunFlags): Promise<void> {
@@ -45,8 +47,22 @@ async function runCommand(scenarioPath: string | undefined, flags: RunFlags): Pr
       import("../../report/svg.js"),
       import("../../report/text.js"),
     ]);
-  const { resolved } = loadScenario(scenarioPath);
+  const { resolved, file } = loadScenario(scenarioPath);
   if (resolved.thermal.climate) return runZonal(resolved, flags, options, writeFileAtomic);
+  if (resolved.thermal.regime === "map") {
+    if (options.transient) throw usage("--from", JSON.stringify(flags.from ?? ""), "no transient mode for the map regime (it runs to its periodic state)");
+    if (integrator) throw usage("--integrator", JSON.stringify(flags.integrator), "the map regime chooses its integrator per cell");
+    const { runMap } = await import("./runMap.js");
+    await runMap(resolved, file, {
+      ...flags,
+      samples: options.samples ?? DEFAULT_SAMPLES,
+      tolerance: flags.tolerance === String(DEFAULT_RELATIVE_TOLERANCE) ? null : options.relativeTolerance!,
+    });
+    return;
+  }
+  if (flags.mapCsv !== undefined || flags.mapAt !== undefined) {
+    throw usage(flags.mapCsv !== undefined ? "--map-csv" : "--map-at", JSON.stringify(flags.mapCsv ?? flags.mapAt), "only for a scenario with regime: map");
+  }
   if (resolved.thermal.column) {
     if (options.transient) throw usage("--from", JSON.stringify(flags.from ?? ""), "no transient mode for a conduction column yet (it runs to its periodic state)");
     // The column's periodicity and energy tolerance: 1e-6 unless --tolerance says otherwise.
@@ -105,6 +121,8 @@ export function registerRun(program: Command): void {
     .option("--from <temperature>", "transient mode: start at this temperature (e.g. 150K, -20degC)")
     .option("--orbits <n>", "transient mode: number of orbits to integrate (default 1)")
     .option("--tolerance <x>", "relative tolerance of the temperatures (a conduction column: 1e-6 unless given)", String(DEFAULT_RELATIVE_TOLERANCE))
+    .option("--map-csv <file>", "map regime: write the surface temperature map at one moment (--map-at) as CSV")
+    .option("--map-at <time>", "map regime: the moment of the map in --map-csv and --svg (e.g. 2.5d; default: the phase curve's maximum)")
     .option("--integrator <name>", `force an integrator, e.g. odex to cross-check a result (${INTEGRATORS.join(", ")}; default: chosen by stiffness)`)
     .addHelpText(
       "after",

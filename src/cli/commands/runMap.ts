@@ -1,0 +1,60 @@
+/** `calorbit run` on a map scenario: the surface map through the orbit and, with an observer, its phase curve. */
+import { readFileSync } from "node:fs";
+import { dirname, resolve } from "node:path";
+import { CalorbitError } from "../../errors.js";
+import { mapDocument, mapSeriesCsv, mapSnapshotCsv, mapSvg, sampleNearest } from "../../report/mapReport.js";
+import { observeMap } from "../../run/observeMap.js";
+import { MAP_DEFAULT_TOLERANCE } from "../../run/simulateMap.js";
+import { parsePassbandTable } from "../../scenario/passbandFile.js";
+import type { ResolvedScenario } from "../../scenario/resolve.js";
+import { mapText } from "../../report/mapReport.js";
+import { quantityFlag } from "../flags.js";
+import { writeFileAtomic } from "../io.js";
+import { out } from "../output.js";
+
+export interface MapRunFlags {
+  json?: boolean;
+  series?: boolean;
+  csv?: string;
+  svg?: string;
+  mapCsv?: string;
+  mapAt?: string;
+  samples: number;
+  /** null when the user gave none: the map's own default applies. */
+  tolerance: number | null;
+}
+
+/** Reads a passband file named in the scenario (relative to the scenario's folder) into its table. */
+function readPassband(resolved: ResolvedScenario, scenarioFile: string): void {
+  const observer = resolved.thermal.observer;
+  if (!observer || observer.passband.kind !== "file") return;
+  const path = resolve(dirname(scenarioFile), observer.passband.path);
+  let text: string;
+  try {
+    text = readFileSync(path, "utf8");
+  } catch {
+    throw new CalorbitError("SCENARIO_INVALID", "the passband file cannot be read", [
+      { path: "observer.passband.file", given: observer.passband.path, allowed: "a readable CSV of wavelength_<unit>,response (relative to the scenario)" },
+    ]);
+  }
+  observer.passband = parsePassbandTable(text, observer.passband.path);
+}
+
+export function runMap(resolved: ResolvedScenario, scenarioFile: string, flags: MapRunFlags): void {
+  readPassband(resolved, scenarioFile);
+  const observed = observeMap(resolved.thermal, { relativeTolerance: flags.tolerance ?? MAP_DEFAULT_TOLERANCE, samples: flags.samples });
+  const at = flags.mapAt !== undefined ? quantityFlag("--map-at", "time", flags.mapAt) : (observed.phase?.timeOfMaxSeconds ?? 0);
+  const sample = sampleNearest(observed, at);
+  // Build every output first, then write: a failure leaves nothing half written.
+  const outputs: [string, string][] = [];
+  if (flags.csv !== undefined) outputs.push([flags.csv, mapSeriesCsv(resolved, observed)]);
+  if (flags.mapCsv !== undefined) outputs.push([flags.mapCsv, mapSnapshotCsv(resolved, observed, sample)]);
+  if (flags.svg !== undefined) outputs.push([flags.svg, mapSvg(resolved, observed, sample)]);
+  for (const [path, content] of outputs) writeFileAtomic(path, content);
+  if (flags.json) {
+    out(JSON.stringify(mapDocument(resolved, observed, flags.series === true), null, 2) + "\n");
+    return;
+  }
+  out(mapText(resolved, observed));
+  for (const [path] of outputs) out(`written: ${path}\n`);
+}
