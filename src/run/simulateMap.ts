@@ -196,8 +196,16 @@ export function simulateMap(c: MapCase, options: MapOptions = {}): MapSimulation
   const from = startE + TWO_PI * leadOrbits;
   const to = from + TWO_PI * reportedOrbits;
   const budgetScale = new Float64Array(3);
+  // With the spin axis along the orbit normal the star never leaves the equator's plane, so a cell
+  // and its mirror across the equator see the same sunlight: solve the northern rows and copy.
+  const mirrored = Math.abs(Math.sin(frame.obliquityRad)) < 1e-15;
+  const { longitudes, latitudes } = grid;
   for (let k = 0; k < cells; k++) {
     const area = grid.areaFraction[k]!;
+    const row = Math.floor(k / longitudes);
+    if (mirrored && row < latitudes - 1 - row) {
+      continue; // filled from its mirror below
+    }
     if (peakAbsorbed[k]! <= UNLIT_SHARE * globalMean && q === 0) {
       // Never lit (or lit at grazing incidence only, a cell centred on the terminator) and no
       // internal heat: the cell sits at 0 K (below 1 % of the scale), and its budget is negligible.
@@ -243,6 +251,12 @@ export function simulateMap(c: MapCase, options: MapOptions = {}): MapSimulation
     absorbedEnergy += area * y[1]!;
     emittedEnergy += area * y[2]!;
     for (let s = 0; s < sampleCount; s++) samples[s * cells + k] = cellSamples[s]!;
+    const mirror = (latitudes - 1 - row) * longitudes + (k % longitudes);
+    if (mirrored && mirror !== k) {
+      absorbedEnergy += area * y[1]!;
+      emittedEnergy += area * y[2]!;
+      for (let s = 0; s < sampleCount; s++) samples[s * cells + mirror] = cellSamples[s]!;
+    }
   }
   const orbitsIntegrated = leadOrbits + reportedOrbits * (mode === "periodic" ? iterations + 1 : 1);
   const times = sampled.times;
