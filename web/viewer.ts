@@ -7,6 +7,8 @@ import type { SweepTable } from "../src/view/sweepData.js";
 import { startColumn, type ColumnDoc } from "./column.js";
 import { $ } from "./dom.js";
 import { startLumped } from "./lumped.js";
+import { startMap } from "./map.js";
+import type { MapViewDocument } from "../src/report/mapReport.js";
 import { startSweep } from "./sweep.js";
 
 async function start(): Promise<void> {
@@ -14,6 +16,7 @@ async function start(): Promise<void> {
   const raw = (await response.json()) as { kind?: string };
   if (raw.kind === "sweep") return startSweep((raw as { file: string }).file, (raw as unknown as { table: SweepTable }).table);
   if (raw.kind === "column") return startColumn(raw as unknown as ColumnDoc);
+  if (raw.kind === "map") return startMap(raw as unknown as MapViewDocument);
   startLumped(raw as ResultDocument);
 }
 

@@ -38,8 +38,13 @@ const GL_W = [
   0.1012285362903763, 0.2223810344533745, 0.3137066458778873, 0.3626837833783620, 0.3626837833783620, 0.3137066458778873,
   0.2223810344533745, 0.1012285362903763,
 ];
-/** Panels per segment: the integrand is smooth in ln λ, so 96 × 8 nodes are far more than enough. */
-const PANELS = 96;
+/**
+ * Panels per segment: 24 per e-fold of wavelength (at least 4, at most 96) of 8 nodes each; the
+ * integrand is smooth in ln λ, and this keeps a narrow band's table cheap to build in the viewer.
+ */
+function panelsFor(l0: number, l1: number): number {
+  return Math.min(96, Math.max(4, Math.ceil(24 * Math.log(l1 / l0))));
+}
 
 /**
  * ∫ B_λ(T) R(λ) dλ over one segment where R is linear from r0 to r1, W m⁻² sr⁻¹: written as
@@ -48,8 +53,9 @@ const PANELS = 96;
 function segmentRadiance(temperatureK: number, l0: number, l1: number, r0: number, r1: number): number {
   let sum = 0;
   const lnStart = Math.log(l0);
-  const width = (Math.log(l1) - lnStart) / PANELS;
-  for (let p = 0; p < PANELS; p++) {
+  const panels = panelsFor(l0, l1);
+  const width = (Math.log(l1) - lnStart) / panels;
+  for (let p = 0; p < panels; p++) {
     const a = lnStart + p * width;
     for (let k = 0; k < 8; k++) {
       const l = Math.exp(a + 0.5 * width * (GL_X[k]! + 1));

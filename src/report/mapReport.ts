@@ -310,3 +310,36 @@ export function mapSvg(resolved: ResolvedScenario, o: ObservedMap, sample: numbe
   parts.push(`</svg>`);
   return parts.join("\n") + "\n";
 }
+
+/** What the viewer needs to redraw the phase curve live for another observer or passband: the map's whole history. */
+export function mapViewDocument(resolved: ResolvedScenario, o: ObservedMap) {
+  const h = o.sim.history;
+  return {
+    kind: "map" as const,
+    ...mapDocument(resolved, o, false),
+    history: {
+      longitudes: h.grid.longitudes,
+      latitudes: h.grid.latitudes,
+      orbit: h.orbit,
+      frame: h.frame,
+      timeSeconds: Array.from(h.timeSeconds),
+      meanAnomalyRad: Array.from(h.meanAnomalyRad),
+      trueAnomalyRad: Array.from(h.trueAnomalyRad),
+      distanceM: Array.from(h.distanceM),
+      substellarLongitudeRad: Array.from(h.substellarLongitudeRad),
+      // four significant figures are plenty for a picture and a live curve; they keep the page's download small
+      temperatureK: Array.from(h.temperatureK, (t) => Number(t.toPrecision(5))),
+    },
+    telescope: o.telescope
+      ? {
+          observer: o.telescope.observer,
+          passband: o.telescope.band.band,
+          planetRadiusM: o.telescope.planetRadiusM,
+          starRadiusM: o.telescope.starRadiusM,
+          starTemperatureK: o.telescope.starTemperatureK,
+        }
+      : null,
+  };
+}
+
+export type MapViewDocument = ReturnType<typeof mapViewDocument>;

@@ -25,9 +25,9 @@ export interface MapRunFlags {
 }
 
 /** Reads a passband file named in the scenario (relative to the scenario's folder) into its table. */
-function readPassband(resolved: ResolvedScenario, scenarioFile: string): void {
+export function readPassband(resolved: ResolvedScenario, scenarioFile: string): ResolvedScenario["thermal"] {
   const observer = resolved.thermal.observer;
-  if (!observer || observer.passband.kind !== "file") return;
+  if (!observer || observer.passband.kind !== "file") return resolved.thermal;
   const path = resolve(dirname(scenarioFile), observer.passband.path);
   let text: string;
   try {
@@ -38,11 +38,11 @@ function readPassband(resolved: ResolvedScenario, scenarioFile: string): void {
     ]);
   }
   observer.passband = parsePassbandTable(text, observer.passband.path);
+  return resolved.thermal;
 }
 
 export function runMap(resolved: ResolvedScenario, scenarioFile: string, flags: MapRunFlags): void {
-  readPassband(resolved, scenarioFile);
-  const observed = observeMap(resolved.thermal, { relativeTolerance: flags.tolerance ?? MAP_DEFAULT_TOLERANCE, samples: flags.samples });
+  const observed = observeMap(readPassband(resolved, scenarioFile), { relativeTolerance: flags.tolerance ?? MAP_DEFAULT_TOLERANCE, samples: flags.samples });
   const at = flags.mapAt !== undefined ? quantityFlag("--map-at", "time", flags.mapAt) : (observed.phase?.timeOfMaxSeconds ?? 0);
   const sample = sampleNearest(observed, at);
   // Build every output first, then write: a failure leaves nothing half written.

@@ -28,8 +28,11 @@ async function viewCommand(path: string | undefined, flags: ViewFlags): Promise<
   } else if (path !== undefined && path.toLowerCase().endsWith(".json") && looksLikeResult(path)) {
     resultJson = readFileSync(path, "utf8");
   } else {
-    const { resolved } = loadScenario(path);
-    if (resolved.thermal.column) {
+    const { resolved, file } = loadScenario(path);
+    if (resolved.thermal.regime === "map") {
+      const [{ mapViewDocument }, { observeMap }, { readPassband }] = await Promise.all([import("../../report/mapReport.js"), import("../../run/observeMap.js"), import("./runMap.js")]);
+      resultJson = JSON.stringify(mapViewDocument(resolved, observeMap(readPassband(resolved, file), { samples: 400 })));
+    } else if (resolved.thermal.column) {
       const col = simulateColumn(resolved.thermal, resolved.thermal.column, { samples: 400 });
       resultJson = JSON.stringify({ kind: "column", ...columnDocument(resolved, col, true), heatMap: columnHeatMap(col) });
     } else {
