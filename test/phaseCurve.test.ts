@@ -239,3 +239,18 @@ describe("map regime beside a published measurement (a comparison, not a fit)", 
     expect(Math.abs(hours - 5.84)).toBeLessThan(4);
   });
 });
+
+describe("the phase curve's band radiances", () => {
+  it("interpolate every cell of a map to 1e-6 of the passband's own table", async () => {
+    const { cellRadiance } = await import("../src/analysis/phaseCurve.js");
+    const sim = simulateMap(mapCase({ e: 0.5, heatCapacity: 3e6, longitudes: 12, latitudes: 6 }), { samples: 40 });
+    const band = new BandRadiance({ kind: "tophat", fromM: 4e-6, toM: 5e-6 });
+    const fast = cellRadiance(sim.history, band);
+    let worst = 0;
+    sim.history.temperatureK.forEach((t, i) => {
+      const direct = band.at(t);
+      if (direct > 1e-12 * band.at(2000)) worst = Math.max(worst, Math.abs(fast[i]! / direct - 1));
+    });
+    expect(worst).toBeLessThan(1e-6);
+  });
+});

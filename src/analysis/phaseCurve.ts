@@ -69,11 +69,52 @@ function observerInEquatorialFrame(frame: CellFrame, observer: Observer): { ra: 
   return { ra: Math.atan2(yEq, x), dec: Math.asin(Math.max(-1, Math.min(1, zEq))) };
 }
 
-/** Band radiance of every cell at every sample, W m⁻² sr⁻¹ (computed once per passband). */
+/** Points of the temperature-uniform table `cellRadiance` builds for one map (cubic interpolation in T). */
+const UNIFORM_TABLE_POINTS = 4096;
+
+/**
+ * Band radiance of every cell at every sample, W m⁻² sr⁻¹ (computed once per passband). A map
+ * evaluates the band hundreds of thousands of times over a narrow range of temperatures, so the
+ * passband's ln-T table is resampled once on a grid uniform in T over that range and read with
+ * cubic (Catmull–Rom) interpolation: no logarithm or exponential per cell.
+ */
 export function cellRadiance(history: MapHistory, band: BandRadiance): Float64Array {
   const t = history.temperatureK;
   const out = new Float64Array(t.length);
-  for (let i = 0; i < t.length; i++) out[i] = band.at(t[i]!);
+  let lo = Infinity;
+  let hi = -Infinity;
+  for (let i = 0; i < t.length; i++) {
+    const v = t[i]!;
+    if (v > 0) {
+      if (v < lo) lo = v;
+      if (v > hi) hi = v;
+    }
+  }
+  if (!(hi > lo)) {
+    for (let i = 0; i < t.length; i++) out[i] = band.at(t[i]!);
+    return out;
+  }
+  const n = UNIFORM_TABLE_POINTS;
+  const step = (hi - lo) / (n - 3);
+  const start = lo - step; // one guard point each side for the cubic's outer neighbours
+  const table = new Float64Array(n);
+  for (let j = 0; j < n; j++) table[j] = band.at(Math.max(start + j * step, 0));
+  const inverse = 1 / step;
+  for (let i = 0; i < t.length; i++) {
+    const v = t[i]!;
+    if (!(v > 0)) {
+      out[i] = 0;
+      continue;
+    }
+    const u = (v - start) * inverse;
+    const j = Math.min(n - 3, Math.max(1, Math.floor(u)));
+    const s = u - j;
+    const p0 = table[j - 1]!;
+    const p1 = table[j]!;
+    const p2 = table[j + 1]!;
+    const p3 = table[j + 2]!;
+    out[i] = p1 + 0.5 * s * (p2 - p0 + s * (2 * p0 - 5 * p1 + 4 * p2 - p3 + s * (3 * (p1 - p2) + p3 - p0)));
+  }
   return out;
 }
 

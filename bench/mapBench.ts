@@ -1,0 +1,91 @@
+/**
+ * The map regime's benchmark figures (called by bench/bench.ts; also runnable alone with
+ * `node dist/bench/mapBench.js`): a 36 × 18 map with heat capacity to its periodic state with a
+ * 1,000-point phase curve (target < 1 s on one core), and the phase curve re-evaluated for a new
+ * inclination and for a new passband without a new solve (target < 20 ms each).
+ * Answers are checked against closed forms: the sphere's orbit-mean absorbed flux
+ * (1 − A) L / (16π a² √(1 − e²)) (Williams & Pollard 2002, eq. 3, with the sphere's factor 1/4)
+ * and the emitted flux equal to it at the periodic state.
+ */
+import { fileURLToPath } from "node:url";
+import { cellRadiance, phaseCurve, phaseCurveSummary } from "../src/analysis/phaseCurve.js";
+import { SOLAR_RADIUS_M, STEFAN_BOLTZMANN } from "../src/constants.js";
+import { BandRadiance } from "../src/physics/planck.js";
+import { keplerPeriodSeconds } from "../src/physics/orbit.js";
+import { simulateMap, type MapCase } from "../src/run/simulateMap.js";
+
+export interface Figure {
+  name: string;
+  value: number;
+  unit: string;
+  target: string;
+  met: boolean;
+  details?: string;
+}
+
+/** Runs the map figures; returns them and the wrong answers found (empty when every check holds). */
+export function mapFigures(): { figures: Figure[]; wrong: string[] } {
+  const wrong: string[] = [];
+  const starRadius = 1.5 * SOLAR_RADIUS_M;
+  const starTemperature = 6200;
+  const luminosity = 4 * Math.PI * starRadius ** 2 * STEFAN_BOLTZMANN * starTemperature ** 4;
+  const a = 0.08 * 1.495978707e11;
+  const period = keplerPeriodSeconds(a, 1.7e20);
+  const c: MapCase = {
+    orbit: { semiMajorAxisM: a, eccentricity: 0.6, periodSeconds: period, meanAnomalyAtStartRad: 0 },
+    luminosityW: luminosity,
+    albedo: 0.08,
+    emissivity: 1,
+    heatCapacityJPerM2K: 6e6,
+    internalFluxWPerM2: 0,
+    spin: { rateRadPerSecond: (4 * Math.PI) / period, obliquityRad: 0, equinoxTrueAnomalyRad: 0, ratio: { spin: 2, orbit: 1 } },
+    windRadPerSecond: 0,
+    longitudes: 36,
+    latitudes: 18,
+  };
+  const telescope = {
+    observer: { inclinationRad: (86 * Math.PI) / 180, argumentOfPeriastronRad: (200 * Math.PI) / 180, longitudeOfNodeRad: 0 },
+    band: new BandRadiance({ kind: "tophat", fromM: 4e-6, toM: 5e-6 }),
+    planetRadiusM: 8e7,
+    starRadiusM: starRadius,
+    starTemperatureK: starTemperature,
+  };
+  const t0 = performance.now();
+  const sim = simulateMap(c, { samples: 1000 });
+  const curve = phaseCurve(sim.history, telescope);
+  const solveSeconds = (performance.now() - t0) / 1000;
+  const closedForm = ((1 - c.albedo) * luminosity) / (16 * Math.PI * a * a * Math.sqrt(1 - c.orbit.eccentricity ** 2));
+  const absorbedError = Math.abs(sim.energy.absorbedWPerM2 / closedForm - 1);
+  // 36 × 18 cells lit at their centres: the sphere's mean cos z is a midpoint sum, good to about 1e-3.
+  if (!(absorbedError < 5e-3)) wrong.push(`map absorbed flux ${sim.energy.absorbedWPerM2} against the closed form ${closedForm} (relative ${absorbedError.toExponential(2)})`);
+  if (!(Math.abs(sim.energy.residual) < 1e-7)) wrong.push(`map energy residual ${sim.energy.residual}`);
+  const first = phaseCurveSummary(sim.history, curve);
+
+  const radiance = cellRadiance(sim.history, telescope.band);
+  const t1 = performance.now();
+  const tilted = phaseCurve(sim.history, { ...telescope, observer: { ...telescope.observer, inclinationRad: (60 * Math.PI) / 180 } }, radiance);
+  const inclinationMs = performance.now() - t1;
+  const tiltedMax = phaseCurveSummary(sim.history, tilted).maxFluxRatio;
+  if (!(tiltedMax > 0 && tiltedMax < first.maxFluxRatio)) wrong.push(`map: a less inclined orbit should see a lower maximum (${tiltedMax} against ${first.maxFluxRatio})`);
+
+  const t2 = performance.now();
+  const redder = phaseCurve(sim.history, { ...telescope, band: new BandRadiance({ kind: "tophat", fromM: 7.5e-6, toM: 9.5e-6 }) });
+  const passbandMs = performance.now() - t2;
+  if (!(phaseCurveSummary(sim.history, redder).maxFluxRatio > first.maxFluxRatio)) wrong.push("map: the planet/star contrast should grow toward longer wavelengths");
+
+  return {
+    wrong,
+    figures: [
+      { name: "map 36x18 periodic state + 1000-point phase curve", value: solveSeconds, unit: "s", target: "< 1 s", met: solveSeconds < 1, details: `${sim.work.evaluations} evaluations` },
+      { name: "map phase curve for a new inclination (no new solve)", value: inclinationMs, unit: "ms", target: "< 20 ms", met: inclinationMs < 20 },
+      { name: "map phase curve for a new passband (no new solve)", value: passbandMs, unit: "ms", target: "< 20 ms", met: passbandMs < 20 },
+    ],
+  };
+}
+
+if (process.argv[1] === fileURLToPath(import.meta.url)) {
+  const { figures, wrong } = mapFigures();
+  for (const f of figures) console.log(`${f.name}: ${f.value.toPrecision(3)} ${f.unit} (target ${f.target}: ${f.met ? "met" : "MISSED"}${f.details ? `; ${f.details}` : ""})`);
+  for (const w of wrong) console.log(`WRONG ${w}`);
+  if (wrong.length > 0) process.exitCode = 1;
+}
