@@ -138,7 +138,7 @@ describe("bad input: one line per problem, exit status 2, no stack trace", async
     ["missing field", validScenario.replace("semiMajorAxis: 1 au, ", ""), /^calorbit: orbit\.semiMajorAxis: given missing; allowed: /m],
     ["e ≥ 1", validScenario.replace("eccentricity: 0.2", "eccentricity: 1.0"), /^calorbit: orbit\.eccentricity: given 1; allowed: a number with 0 ≤ e < 1$/m],
     ["negative albedo", validScenario.replace("albedo: 0.3", "albedo: -0.1"), /^calorbit: body\.albedo: given -0\.1; allowed: a number with 0 ≤ A ≤ 1$/m],
-    ["unknown unit", validScenario.replace("1 au", "1 parsec"), /^calorbit: orbit\.semiMajorAxis: given "1 parsec"; allowed: unit one of m, cm, mm, km, au, Rsun \(unknown unit "parsec"\)$/m],
+    ["unknown unit", validScenario.replace("1 au", "1 parsec"), /^calorbit: orbit\.semiMajorAxis: given "1 parsec"; allowed: unit one of m, cm, mm, um, nm, km, au, Rearth, Rjup, Rsun \(unknown unit "parsec"\)$/m],
     ["NaN", validScenario.replace("eccentricity: 0.2", "eccentricity: .nan"), /^calorbit: orbit\.eccentricity: given NaN; allowed: /m],
     ["unknown key", validScenario.replace("albedo: 0.3", "albedo: 0.3, colour: red"), /^calorbit: body\.colour: given "red"; allowed: no such key here/m],
   ];
