@@ -118,14 +118,18 @@ export class StarInCellFrame {
   }
 }
 
-export interface MapSurface {
-  grid: LonLatGrid;
+/** What every cell of a map shares: the orbit, the star's output and the slab's properties (SI). */
+export interface MapBody {
   orbit: Orbit;
   luminosityW: number;
   albedo: number;
   emissivity: number;
   heatCapacityJPerM2K: number;
   internalFluxWPerM2: number;
+}
+
+export interface MapSurface extends MapBody {
+  grid: LonLatGrid;
   frame: CellFrame;
 }
 

@@ -9,7 +9,7 @@ import type { MapHistory } from "../analysis/phaseCurve.js";
 import { eccentricAnomaly, trueAnomalyFromEccentric } from "../physics/kepler.js";
 import { meanMotion, type Orbit } from "../physics/orbit.js";
 import { LumpedBalance } from "../physics/energyBalance.js";
-import { CellBudget, cellForcing, lonLatGrid, MapIllumination, StarInCellFrame, type CellFrame, type MapSurface } from "../physics/surfaceGrid.js";
+import { CellBudget, cellForcing, lonLatGrid, MapIllumination, StarInCellFrame, type CellFrame, type MapBody, type MapSurface } from "../physics/surfaceGrid.js";
 import { chooseIntegrator, integrateCycle, plainOdeTolerance, solvePeriodic } from "../solve/periodic.js";
 import { addWork, emptyWork, type SolverWork } from "../solve/system.js";
 
@@ -24,13 +24,7 @@ const MAX_FORWARD_ORBITS = 400;
 const UNLIT_SHARE = 1e-9;
 const MAX_STEPS_PER_ORBIT = 2_000_000;
 
-export interface MapCase {
-  orbit: Orbit;
-  luminosityW: number;
-  albedo: number;
-  emissivity: number;
-  heatCapacityJPerM2K: number;
-  internalFluxWPerM2: number;
+export interface MapCase extends MapBody {
   /** The body's spin: rate, obliquity, equinox; `ratio` when it was given as p:q. */
   spin: { rateRadPerSecond: number; obliquityRad: number; equinoxTrueAnomalyRad: number; ratio?: { spin: number; orbit: number } };
   /** Solid-body wind relative to the ground, rad s⁻¹ (positive eastward, with the spin). */
@@ -120,16 +114,7 @@ export function simulateMap(c: MapCase, options: MapOptions = {}): MapSimulation
     equinoxTrueAnomalyRad: c.spin.equinoxTrueAnomalyRad,
   };
   const grid = lonLatGrid(c.longitudes, c.latitudes);
-  const surface: MapSurface = {
-    grid,
-    orbit,
-    luminosityW: c.luminosityW,
-    albedo: c.albedo,
-    emissivity: c.emissivity,
-    heatCapacityJPerM2K: c.heatCapacityJPerM2K,
-    internalFluxWPerM2: c.internalFluxWPerM2,
-    frame,
-  };
+  const surface: MapSurface = { ...c, grid, frame };
   const illumination = new MapIllumination(surface);
   const cells = illumination.cells;
   const cycle = sharedCycle(frame.rateRadPerSecond, n, c.spin.ratio);
