@@ -18,7 +18,7 @@ export function expose(value: unknown): void {
 export function hideLumpedPanels(): void {
   document
     .querySelector<HTMLElement>(".controls")!
-    .querySelectorAll("label, .buttons")
+    .querySelectorAll("label, .buttons, h3, #params, #regime-params")
     .forEach((el) => ((el as HTMLElement).style.display = "none"));
 }
 

@@ -115,3 +115,39 @@ export function chartMarkers(series: SeriesLike, summary: SummaryLike, axis: XAx
   const window = summary.timeInRange ? { lowK: summary.timeInRange.lowK, highK: summary.timeInRange.highK } : null;
   return { periastra, maximum, window };
 }
+
+/**
+ * Another run's values on this chart's time axis, for an overlay: the other run's cycle (its own
+ * samples, first to last) is repeated to cover `times` and interpolated linearly. Equal axes give
+ * the values back unchanged.
+ */
+export function periodicResample(times: ArrayLike<number>, otherTimes: ArrayLike<number>, otherValues: ArrayLike<number>): Float64Array {
+  const n = otherTimes.length;
+  const out = new Float64Array(times.length);
+  if (n === 0) return out.fill(NaN);
+  const t0 = otherTimes[0]!;
+  const span = otherTimes[n - 1]! - t0;
+  for (let i = 0; i < times.length; i++) {
+    const t = times[i]!;
+    if (i < n && t === otherTimes[i]) {
+      out[i] = otherValues[i]!;
+      continue;
+    }
+    let u = span > 0 ? (t - t0) % span : 0;
+    if (u < 0) u += span;
+    u += t0;
+    // Largest j with otherTimes[j] <= u.
+    let lo = 0;
+    let hi = n - 1;
+    while (hi - lo > 1) {
+      const mid = (lo + hi) >> 1;
+      if (otherTimes[mid]! <= u) lo = mid;
+      else hi = mid;
+    }
+    const ta = otherTimes[lo]!;
+    const tb = otherTimes[hi]!;
+    const w = tb > ta ? (u - ta) / (tb - ta) : 0;
+    out[i] = otherValues[lo]! + w * (otherValues[hi]! - otherValues[lo]!);
+  }
+  return out;
+}

@@ -30,3 +30,18 @@ export const REGIME_COLOURS: Readonly<Record<Regime, string>> = Object.fromEntri
 
 /** A cycle of distinct colours for families of curves. */
 export const SERIES_CYCLE = Object.values(OKABE_ITO);
+
+/**
+ * Colours for regimes drawn over a chart whose own curves already use `reserved`: each regime keeps
+ * its own colour when that is free, and otherwise takes the first palette colour nobody uses, so no
+ * two curves share a colour (up to the palette's eight).
+ */
+export function overlayColours(regimes: readonly string[], reserved: readonly string[]): string[] {
+  const used = new Set(reserved.map((c) => c.toUpperCase()));
+  return regimes.map((r) => {
+    const own = (REGIME_COLOURS as Readonly<Record<string, string>>)[r];
+    const colour = own !== undefined && !used.has(own.toUpperCase()) ? own : (SERIES_CYCLE.find((c) => !used.has(c.toUpperCase())) ?? CHART_COLOURS.grey);
+    used.add(colour.toUpperCase());
+    return colour;
+  });
+}
