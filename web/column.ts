@@ -2,12 +2,27 @@
 import uPlot from "uplot";
 import { DAY_S } from "../src/constants.js";
 import { CHART_COLOURS } from "../src/view/palette.js";
+import { duration, sig } from "../src/report/format.js";
+import { cycleWords, lagWords, windowWords } from "../src/report/wording.js";
+import { edgesFromCentres, layerEdges } from "../src/view/heatMapLayout.js";
 import { $, expose, fmt, hideLumpedPanels, setText } from "./dom.js";
 import { drawHeatMap } from "./heatMap.js";
 
 export interface ColumnDoc {
-  scenario: { name: string };
-  summary: { temperature: { minK: number; maxK: number; meanK: number }; equilibrium: { minK: number; maxK: number; meanK: number }; skinDepths: { diurnalM: number | null; orbitalM: number }; lagSeconds: number | null; energyBalanceResidual: number; periodSeconds: number };
+  scenario: { name: string; orbit: { eccentricity: number } };
+  summary: {
+    temperature: { minK: number; maxK: number; meanK: number; swingK: number };
+    equilibrium: { minK: number; maxK: number; meanK: number; swingK: number };
+    skinDepths: { diurnalM: number | null; orbitalM: number };
+    thermalInertiaSurface?: number;
+    lagSeconds: number | null;
+    dampingRatio?: number;
+    energyBalanceResidual: number;
+    periodSeconds: number;
+    cycleSeconds?: number;
+    solarDaySeconds?: number | null;
+    timeInRange?: { lowK: number; highK: number; fraction: number; seconds: number };
+  };
   series: { timeSeconds: number[]; temperatureK: number[]; equilibriumK: number[] };
   heatMap: { depthsM: number[]; timesSeconds: number[]; temperatureK: number[][] };
 }
@@ -26,34 +41,48 @@ export function startColumn(doc: ColumnDoc): void {
       title: "Surface temperature and instantaneous equilibrium",
       scales: { x: { time: false } },
       axes: [{ label: "time since start (d)" }, { label: "temperature (K)" }],
-      series: [{ label: "time (d)" }, { label: "T surface (K)", stroke: CHART_COLOURS.temperature, width: 2.5 }, { label: "T_eq (K)", stroke: CHART_COLOURS.equilibrium, width: 2, dash: [8, 5] }],
+      series: [{ label: "time since start (d)" }, { label: "T surface (K)", stroke: CHART_COLOURS.temperature, width: 2.5 }, { label: "T_eq (K)", stroke: CHART_COLOURS.equilibrium, width: 2, dash: [8, 5] }],
     },
     [days, s.temperatureK, s.equilibriumK] as uPlot.AlignedData,
     $("chart-orbit"),
   );
   const hm = doc.heatMap;
+  const times = hm.timesSeconds.map((t) => t / DAY_S);
   drawHeatMap($("chart-temperature"), {
     title: "Temperature against depth and time",
     xLabel: "time since start (d)",
     yLabel: "depth (m)",
     valueLabel: "temperature (K)",
-    xs: hm.timesSeconds.map((t) => t / DAY_S),
+    xs: times,
     ys: hm.depthsM,
     value: (ix, iy) => hm.temperatureK[ix]![iy]!,
     yDown: true,
+    // Rows at their depths in metres (the layers thicken downwards), columns at their times.
+    xEdges: edgesFromCentres(times),
+    yEdges: layerEdges(hm.depthsM),
   });
-  setText("t-min", fmt(doc.summary.temperature.minK));
-  setText("t-max", fmt(doc.summary.temperature.maxK));
-  setText("t-mean", fmt(doc.summary.temperature.meanK));
-  setText("teq-min", fmt(doc.summary.equilibrium.minK));
-  setText("teq-max", fmt(doc.summary.equilibrium.maxK));
-  setText("teq-mean", fmt(doc.summary.equilibrium.meanK));
-  setText("lag", doc.summary.lagSeconds === null ? "none (circular)" : `${fmt(doc.summary.lagSeconds / DAY_S, 1)} d`);
-  setText("damping", "—");
-  setText("tau", `skin depths ${doc.summary.skinDepths.diurnalM !== null ? `${doc.summary.skinDepths.diurnalM.toPrecision(2)} m / ` : ""}${doc.summary.skinDepths.orbitalM.toPrecision(2)} m`);
-  setText("in-range", "—");
-  setText("residual", doc.summary.energyBalanceResidual.toExponential(1));
-  setText("period", `${fmt(doc.summary.periodSeconds / DAY_S, 2)} d`);
-  expose({ mode: "column", summary: doc.summary });
+  const sum = doc.summary;
+  setText("t-label", "T surface (K)");
+  setText("t-min", fmt(sum.temperature.minK));
+  setText("t-max", fmt(sum.temperature.maxK));
+  setText("t-mean", fmt(sum.temperature.meanK));
+  setText("t-swing", fmt(sum.temperature.swingK));
+  setText("teq-min", fmt(sum.equilibrium.minK));
+  setText("teq-max", fmt(sum.equilibrium.maxK));
+  setText("teq-mean", fmt(sum.equilibrium.meanK));
+  setText("teq-swing", fmt(sum.equilibrium.swingK));
+  setText("lag", lagWords(sum, doc.scenario.orbit.eccentricity));
+  setText("damping", sum.dampingRatio === undefined ? "—" : fmt(sum.dampingRatio, 3));
+  const d = sum.skinDepths;
+  setText("tau-label", d.diurnalM !== null ? "skin depths (solar day, orbit)" : "skin depth (orbit)");
+  setText("tau", `${d.diurnalM !== null ? `${sig(d.diurnalM, 2)} m, ` : ""}${sig(d.orbitalM, 2)} m`);
+  setText("in-range", windowWords({ ...sum, cycleSeconds: sum.cycleSeconds ?? sum.periodSeconds }) ?? "no window set");
+  setText("residual", sum.energyBalanceResidual.toExponential(1));
+  setText("period", `${fmt(sum.periodSeconds / DAY_S, 2)} d`);
+  const cycle = sum.cycleSeconds ?? sum.periodSeconds;
+  setText("cycle", cycleWords(sum.periodSeconds, cycle) === "of the orbit" ? "one orbit" : `${sig(cycle / sum.periodSeconds, 3)} orbits`);
+  const solar = sum.solarDaySeconds;
+  $("solar-day-row").hidden = solar === undefined;
+  if (solar !== undefined) setText("solar-day", solar === null ? "none (synchronous spin)" : duration(solar));
+  expose({ mode: "column", summary: sum });
 }
-
