@@ -3,10 +3,11 @@
  * a test tool downloads). Outside CI a missing chromium skips this file loudly; in CI it fails.
  */
 import { spawn, spawnSync, type ChildProcess } from "node:child_process";
-import { existsSync, mkdirSync } from "node:fs";
+import { existsSync, mkdirSync, readFileSync } from "node:fs";
 import { join } from "node:path";
 import { chromium, type Browser, type Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { pngTextChunks } from "../src/view/exportData.js";
 
 const CHROMIUM = process.env.CALORBIT_CHROMIUM ?? "/usr/bin/chromium";
 const CLI = join(import.meta.dirname, "..", "dist", "src", "cli", "main.js");
@@ -40,7 +41,7 @@ beforeAll(async () => {
     headless: true,
     args: ["--no-sandbox", "--disable-gpu", "--disable-background-networking", "--disable-component-update", "--disable-sync", "--no-first-run", "--disable-quic"],
   });
-  page = await browser.newPage({ viewport: { width: 1400, height: 900 } });
+  page = await browser.newPage({ viewport: { width: 1400, height: 900 }, acceptDownloads: true });
 }, 60_000);
 
 afterAll(async () => {
@@ -50,21 +51,40 @@ afterAll(async () => {
 
 const text = (id: string) => page.textContent(`[data-testid="${id}"]`).then((t) => (t ?? "").trim());
 
+interface Exposed {
+  mode: string;
+  error: string | null;
+  summary: { temperature: { minK: number; maxK: number; meanK: number; swingK: number }; night?: unknown } | null;
+  axisLabels: { temperature: string; orbit: string };
+  curves: { label: string; stroke: string }[];
+  renders: number;
+}
+const exposed = () => page.evaluate(() => (window as unknown as { calorbitViewer: Exposed }).calorbitViewer);
+const param = (key: string) => new URL(page.url()).searchParams.get(key);
+
 describe.skipIf(!haveBrowser)("the viewer in chromium", () => {
   const requests: string[] = [];
+  // The demo as `calorbit run --json` computes it; the page must show these numbers as run prints them (2 decimals).
+  let run: { summary: { temperature: Record<string, number>; equilibrium: Record<string, number>; dampingRatio: number } };
+  const expectRunNumbers = async () => {
+    for (const k of ["min", "max", "mean", "swing"]) {
+      expect(await text(`t-${k}`)).toBe(run.summary.temperature[`${k}K`]!.toFixed(2));
+      expect(await text(`teq-${k}`)).toBe(run.summary.equilibrium[`${k}K`]!.toFixed(2));
+    }
+    expect(await text("damping")).toBe(run.summary.dampingRatio.toFixed(3));
+  };
 
-  it("draws the demo with the same summary numbers as run --json, loading nothing from elsewhere", async () => {
+  it("draws the demo with the numbers of run --json and the scenario's exact values, loading nothing from elsewhere", async () => {
     page.on("request", (r) => requests.push(r.url()));
     const errors: string[] = [];
     page.on("pageerror", (e) => errors.push(e.message));
     await page.goto(url);
     await page.waitForFunction(() => (window as unknown as { calorbitViewer?: unknown }).calorbitViewer !== undefined);
-    const json = JSON.parse(spawnSync(process.execPath, [CLI, "run", "--json"], { encoding: "utf8" }).stdout);
-    expect(await text("t-min")).toBe(json.summary.temperature.minK.toFixed(2));
-    expect(await text("t-max")).toBe(json.summary.temperature.maxK.toFixed(2));
-    expect(await text("t-mean")).toBe(json.summary.temperature.meanK.toFixed(2));
-    expect(await text("teq-max")).toBe(json.summary.equilibrium.maxK.toFixed(2));
-    expect(await text("damping")).toBe(json.summary.dampingRatio.toFixed(3));
+    run = JSON.parse(spawnSync(process.execPath, [CLI, "run", "--json"], { encoding: "utf8" }).stdout);
+    await expectRunNumbers();
+    // The number boxes hold the scenario's values (0.79 au; 30 m of seawater, 1025 × 3990 × 30 J m⁻² K⁻¹).
+    expect(await page.inputValue("#num-a")).toBe("0.79");
+    expect(await page.inputValue("#num-C")).toBe("122692500");
     // The chart is drawn: its canvas holds the temperature curve's blue.
     const blue = await page.evaluate(() => {
       const c = document.querySelector<HTMLCanvasElement>("#chart-temperature canvas")!;
@@ -78,28 +98,89 @@ describe.skipIf(!haveBrowser)("the viewer in chromium", () => {
     expect(requests.every((r) => r.startsWith(url) || r.startsWith("data:"))).toBe(true);
   });
 
-  it("re-simulates in the page when the eccentricity moves, and keeps the state in the URL", async () => {
-    const before = await text("t-max");
-    const swingBefore = await page.evaluate(() => (window as unknown as { calorbitViewer: { summary: { temperature: { swingK: number } } } }).calorbitViewer.summary.temperature.swingK);
-    await page.focus("#in-e");
-    await page.$eval("#in-e", (el) => {
-      (el as HTMLInputElement).value = "0.6";
-      el.dispatchEvent(new Event("input", { bubbles: true }));
-    });
-    await page.waitForFunction((b) => document.querySelector('[data-testid="t-max"]')!.textContent !== b, before);
-    const after = await page.evaluate(() => (window as unknown as { calorbitViewer: { summary: { temperature: { swingK: number; maxK: number } }; renderMs: number } }).calorbitViewer);
-    expect(after.summary.temperature.swingK).toBeGreaterThan(swingBefore);
-    expect(await text("t-max")).toBe(after.summary.temperature.maxK.toFixed(2));
-    expect(new URL(page.url()).searchParams.get("e")).toBe("0.600");
-    // Keyboard: the slider answers the arrow keys.
-    await page.keyboard.press("ArrowRight");
-    await page.waitForFunction(() => new URL(location.href).searchParams.get("e") === "0.610");
-    // Overlaying the other regimes adds their curves to the legend.
-    const legendBefore = await page.locator("#chart-temperature .u-legend .u-series").count();
+  it("moves each slider away and back and shows run's numbers again, keeping the exact values in the URL", async () => {
+    for (const key of ["e", "albedo", "emissivity", "C", "a"]) {
+      const exact = await page.inputValue(`#num-${key}`);
+      await page.focus(`#in-${key}`);
+      await page.keyboard.press("ArrowRight");
+      await page.keyboard.press("ArrowRight");
+      await page.waitForFunction(([k, v]) => new URL(location.href).searchParams.get(k!) !== v, [key, exact]);
+      expect(await text("t-max")).not.toBe(run.summary.temperature.maxK!.toFixed(2));
+      expect(await page.inputValue(`#num-${key}`)).toBe(param(key));
+      await page.keyboard.press("ArrowLeft");
+      await page.keyboard.press("ArrowLeft");
+      await page.waitForFunction(([k, v]) => new URL(location.href).searchParams.get(k!) === v, [key, exact]);
+      expect(await page.inputValue(`#num-${key}`)).toBe(exact);
+      await expectRunNumbers();
+    }
+    expect(param("C")).toBe("122692500");
+    expect(param("a")).toBe("0.79");
+    // An exact value typed in the box is the value computed with; a value that is not allowed is refused in one line.
+    await page.fill("#num-e", "0.6");
+    await page.press("#num-e", "Enter");
+    await page.waitForFunction(() => new URL(location.href).searchParams.get("e") === "0.6");
+    const swing = (await exposed()).summary!.temperature.swingK;
+    expect(swing).toBeGreaterThan(run.summary.temperature.swingK!);
+    await page.fill("#num-e", "1.2");
+    await page.press("#num-e", "Enter");
+    await page.waitForSelector('[data-testid="problem"]:not([hidden])');
+    expect(await text("problem")).toBe("eccentricity: given \"1.2\"; allowed: 0 ≤ e < 1");
+    await page.click("#reset");
+    await page.waitForFunction(() => new URL(location.href).search === "");
+    await expectRunNumbers();
+    expect(await page.isHidden('[data-testid="problem"]')).toBe(true);
+  });
+
+  it("says what a regime needs, greys the previous charts, and computes once the control is set", async () => {
+    await page.selectOption("#in-regime", "daynight");
+    await page.waitForSelector('[data-testid="problem"]:not([hidden])');
+    expect(await text("problem")).toContain("Set recirculation above");
+    expect(await page.getAttribute(".charts", "class")).toContain("stale");
+    expect(await text("t-max")).toBe("—");
+    expect((await exposed()).summary).toBeNull();
+    expect(await page.getAttribute('.param[data-key="recirculation"]', "class")).toContain("needed");
+    await page.fill("#num-recirculation", "0.3");
+    await page.press("#num-recirculation", "Enter");
+    await page.waitForSelector('[data-testid="problem"]', { state: "hidden" });
+    expect(await page.getAttribute(".charts", "class")).not.toContain("stale");
+    expect((await exposed()).summary!.night).toBeDefined();
+    expect(Number(await text("night-mean"))).toBeLessThan(Number(await text("t-mean")));
+    // Each regime shows the settings it reads.
+    const visible = async () => page.$$eval("#regime-params .param:not([hidden])", (rows) => rows.map((r) => (r as HTMLElement).dataset.key));
+    expect(await visible()).toEqual(["recirculation"]);
+    await page.selectOption("#in-regime", "band");
+    await page.waitForFunction(() => new URL(location.href).searchParams.get("regime") === "band");
+    expect(await visible()).toEqual(["latitude", "obliquity"]);
+    await page.selectOption("#in-regime", "point");
+    await page.waitForFunction(() => new URL(location.href).searchParams.get("regime") === "point");
+    expect(await visible()).toEqual(["latitude", "longitude", "obliquity", "spin"]);
+    expect((await exposed()).error).toBeNull();
+    await page.selectOption("#in-regime", "global");
+    await page.waitForFunction(() => new URL(location.href).searchParams.get("regime") === "global");
+  });
+
+  it("labels both charts by the chosen x axis, overlays in distinct colours, and exports the parameters and version", async () => {
+    await page.selectOption("#in-x", "trueAnomaly");
+    await page.waitForFunction(() => new URL(location.href).searchParams.get("x") === "trueAnomaly");
+    expect((await exposed()).axisLabels).toEqual({ temperature: "true anomaly (deg, 0 at periastron)", orbit: "true anomaly (deg, 0 at periastron)" });
     await page.check("#in-overlay");
-    await page.waitForFunction((n) => document.querySelectorAll("#chart-temperature .u-legend .u-series").length > n, legendBefore);
-    expect(await page.locator("#chart-temperature .u-legend .u-series").count()).toBeGreaterThanOrEqual(legendBefore + 4);
+    await page.waitForFunction(() => document.querySelectorAll("#chart-temperature .u-legend .u-series").length >= 7);
+    const strokes = (await exposed()).curves.map((c) => c.stroke.toUpperCase());
+    expect(strokes.length).toBeGreaterThanOrEqual(6);
+    expect(new Set(strokes).size).toBe(strokes.length);
+    const [csv] = await Promise.all([page.waitForEvent("download"), page.click("#export-csv")]);
+    const csvText = readFileSync((await csv.path())!, "utf8");
+    const version = JSON.parse(readFileSync(join(import.meta.dirname, "..", "package.json"), "utf8")).version as string;
+    expect(csvText.split("\n")[0]).toBe(`# calorbit ${version} viewer export — Calyndra b (ocean slab)`);
+    expect(csvText).toContain("# regime: global; eccentricity = 0.32, Bond albedo = 0.31, emissivity = 0.96, heat capacity = 122692500 J m⁻² K⁻¹, semi-major axis = 0.79 au");
+    expect(csvText.split("\n").find((l) => !l.startsWith("#"))).toMatch(/^true_anomaly_deg,temperature_K,equilibrium_K,temperature_dayside_K,/);
+    const [png] = await Promise.all([page.waitForEvent("download"), page.click("#export-png")]);
+    const chunks = pngTextChunks(new Uint8Array(readFileSync((await png.path())!)));
+    expect(chunks.Software).toBe(`calorbit ${version}`);
+    expect(chunks.Description).toContain("semi-major axis = 0.79 au");
     await page.uncheck("#in-overlay");
+    await page.selectOption("#in-x", "time");
+    await page.waitForFunction(() => new URL(location.href).searchParams.get("x") === "time");
     mkdirSync(OUTPUT, { recursive: true });
     await page.screenshot({ path: join(OUTPUT, "viewer.png") });
     expect(requests.every((r) => r.startsWith(url) || r.startsWith("data:") || r.startsWith("blob:"))).toBe(true);
@@ -130,6 +211,16 @@ describe.skipIf(!haveBrowser)("the viewer in chromium", () => {
         return seen.size;
       });
       expect(colours).toBeGreaterThan(10);
+      // Hovering a cell shows its axis values and its value.
+      const box = (await p.locator("#chart-temperature canvas").boundingBox())!;
+      await p.mouse.move(box.x + box.width * 0.4, box.y + box.height * 0.5);
+      const tip = (await p.textContent('[data-testid="heat-tip"]')) ?? "";
+      expect(tip).toMatch(mode === "sweep" ? /^orbit\.eccentricity = [\d.]+, body\.layer\.thickness_m = [\d.]+: T_swing_K = [\d.]+$/ : /^time since start \(d\) = [\d.]+, depth \(m\) = [\d.e-]+: temperature \(K\) = [\d.]+$/);
+      if (mode === "column") {
+        // The column's summary names its rows: skin depths where a slab has τ / P.
+        expect(await p.textContent('[data-testid="tau-label"]')).toBe("skin depths (solar day, orbit)");
+        expect(await p.textContent('[data-testid="tau"]')).toMatch(/^[\d.]+ m, [\d.]+ m$/);
+      }
       await p.screenshot({ path: join(OUTPUT, `viewer-${mode}.png`) });
       await p.close();
       other.kill("SIGINT");
