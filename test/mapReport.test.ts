@@ -87,3 +87,32 @@ describe("passband response files", () => {
     expect(() => parsePassbandTable("lambda,response\n5,1\n6,1\n", "band.csv")).toThrow(CalorbitError);
   });
 });
+
+describe("map sweeps", () => {
+  it("write the phase curve's metrics in every row, equal to a single run of the same case", async () => {
+    const { caseCells, columns } = await import("../src/sweep/runCase.js");
+    const { caseMaker } = await import("../src/sweep/design.js");
+    const { parseAxis } = await import("../src/sweep/spec.js");
+    const scenario = demo();
+    scenario.map = { longitudes: 8, latitudes: 4 };
+    const def = {
+      scenario,
+      design: { axes: [parseAxis("observer.inclination=60 deg,88 deg")] },
+      relativeTolerance: 1e-6,
+      format: "csv" as const,
+    };
+    const names = columns(def as never);
+    const make = caseMaker(def.design as never);
+    const rows = [0, 1].map((id) => caseCells(def as never, make(id)));
+    const at = (row: (string | number | null)[], name: string) => row[names.indexOf(name)];
+    for (const row of rows) expect(at(row, "status")).toBe("ok");
+    const single = demo();
+    single.map = { longitudes: 8, latitudes: 4 };
+    single.observer.inclination = "88 deg";
+    const observed = observeMap(resolveScenario(single).thermal, { samples: 400 });
+    expect(at(rows[1]!, "flux_ratio_max")).toBeCloseTo(observed.phase!.maxFluxRatio, 12);
+    expect(at(rows[1]!, "transit_depth")).toBeCloseTo(observed.transit!.depth, 12);
+    expect(Number(at(rows[0]!, "flux_ratio_max"))).toBeLessThan(Number(at(rows[1]!, "flux_ratio_max")));
+    expect(at(rows[0]!, "transit_depth")).toBe(0); // at 60° the planet passes far from the star's disc
+  });
+});

@@ -10,6 +10,8 @@ import { columnToleranceFor, simulateColumn } from "../run/simulateColumn.js";
 import type { ThermalCase } from "../model/thermalCase.js";
 import type { TemperatureStats } from "../analysis/summarise.js";
 import { simulateZonal, zonalCaseOf } from "../run/zonal.js";
+import { observeMap } from "../run/observeMap.js";
+import { MAP_DEFAULT_TOLERANCE } from "../run/simulateMap.js";
 import { VERSION } from "../version.js";
 import type { CaseValues, Design, Shard } from "./design.js";
 import { columnValue, setPath } from "./spec.js";
@@ -58,6 +60,11 @@ export const METRIC_COLUMNS = [
   "habitable_fraction",
   "snowball",
   "climates",
+  "flux_ratio_max",
+  "flux_ratio_min",
+  "flux_max_after_periastron_s",
+  "transit_depth",
+  "occultation_depth",
 ] as const;
 
 type Metrics = Record<(typeof METRIC_COLUMNS)[number], number | string | null>;
@@ -208,6 +215,62 @@ function lumpedMetrics(thermal: ThermalCase, relativeTolerance: number): Metrics
     skin_depth_orbital_m: null,
     T_deep_mean_K: null,
     ...NO_CLIMATE,
+    ...NO_MAP,
+  };
+}
+
+/** The map regime's phase-curve columns, empty for every other regime. */
+const NO_MAP = {
+  flux_ratio_max: null,
+  flux_ratio_min: null,
+  flux_max_after_periastron_s: null,
+  transit_depth: null,
+  occultation_depth: null,
+};
+
+/**
+ * A map's row: the whole grid's temperature range and area-weighted mean, the sphere's energy
+ * residual, and the phase curve's metrics when the scenario has an observer. A passband given as
+ * a file is not read by sweep workers: give it inline ({from, to} or {wavelengths, response}).
+ */
+function mapMetrics(thermal: ThermalCase, relativeTolerance: number): Metrics {
+  const o = observeMap(thermal, { relativeTolerance: Math.max(relativeTolerance, MAP_DEFAULT_TOLERANCE), samples: 400 });
+  const { sim } = o;
+  let minK = Infinity;
+  let maxK = -Infinity;
+  let meanK = 0;
+  for (let k = 0; k < sim.cellMeanK.length; k++) {
+    minK = Math.min(minK, sim.cellMinK[k]!);
+    maxK = Math.max(maxK, sim.cellMaxK[k]!);
+    meanK += sim.history.grid.areaFraction[k]! * sim.cellMeanK[k]!;
+  }
+  return {
+    T_min_K: minK,
+    T_max_K: maxK,
+    T_mean_K: meanK,
+    T_swing_K: maxK - minK,
+    Teq_min_K: null,
+    Teq_max_K: null,
+    Teq_mean_K: null,
+    lag_s: null,
+    damping_ratio: null,
+    tau_over_period: sim.radiativeTimeSeconds / thermal.orbit.periodSeconds,
+    period_s: thermal.orbit.periodSeconds,
+    time_in_range_fraction: null,
+    energy_residual: sim.energy.residual,
+    integrator: `cells (${sim.mode})`,
+    iterations: sim.iterations,
+    orbits: sim.orbitsIntegrated,
+    evaluations: sim.work.evaluations,
+    skin_depth_diurnal_m: null,
+    skin_depth_orbital_m: null,
+    T_deep_mean_K: null,
+    ...NO_CLIMATE,
+    flux_ratio_max: o.phase?.maxFluxRatio ?? null,
+    flux_ratio_min: o.phase?.minFluxRatio ?? null,
+    flux_max_after_periastron_s: o.phase?.timeOfMaxAfterPeriastronSeconds ?? null,
+    transit_depth: o.transit ? (o.transit.occurs ? o.transit.depth : 0) : null,
+    occultation_depth: o.occultation ? (o.occultation.occurs ? o.occultation.depth : 0) : null,
   };
 }
 
@@ -262,6 +325,7 @@ function zonalMetrics(thermal: ThermalCase): Metrics {
     habitable_fraction: s.habitableFraction,
     snowball: s.snowball ? 1 : 0,
     climates: sim.climates.length,
+    ...NO_MAP,
   };
 }
 
@@ -283,6 +347,7 @@ function columnMetrics(thermal: ThermalCase, relativeTolerance: number): Metrics
     skin_depth_orbital_m: s.skinDepths.orbitalM,
     T_deep_mean_K: s.depthProfile.at(-1)?.meanK ?? null,
     ...NO_CLIMATE,
+    ...NO_MAP,
   };
 }
 
@@ -297,7 +362,9 @@ export function caseCells(def: SweepDefinition, c: CaseValues): Cell[] {
     const { thermal } = resolveScenario(doc);
     metrics = thermal.climate
       ? zonalMetrics(thermal)
-      : thermal.column
+      : thermal.regime === "map"
+        ? mapMetrics(thermal, def.relativeTolerance)
+        : thermal.column
         ? columnMetrics(thermal, def.relativeTolerance)
         : lumpedMetrics(thermal, def.relativeTolerance);
   } catch (err) {
