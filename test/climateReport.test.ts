@@ -149,3 +149,27 @@ describe("sweeps of the zonal climate", () => {
     expect(value("climates")).toBe("2");
   });
 });
+
+describe("the zonal view's data", () => {
+  it("gives each climate T(latitude, time), its ice edges (the equatormost band below the ice-edge temperature) and its annual-mean profile", async () => {
+    const { zonalViewDocument } = await import("../src/report/zonalReport.js");
+    const resolved = resolveScenario({ ...small, climate: { ...small.climate, start: "both" } });
+    const zonal = zonalCaseOf(resolved.thermal);
+    const sim = simulateZonal(zonal);
+    const doc = zonalViewDocument(resolved, zonal, sim, resolved.thermal.climate!, 24);
+    expect(doc.latitudeDeg).toHaveLength(30);
+    expect(doc.views).toHaveLength(sim.climates.length);
+    for (const [i, v] of doc.views.entries()) {
+      expect(v.temperatureK).toHaveLength(24);
+      expect(v.meanProfileK).toEqual(sim.climates[i]!.summary.bands.map((b) => b.temperature.meanK));
+      v.northEdgeDeg.forEach((edge, s) => {
+        if (edge === null) {
+          for (let j = 0; j < 30; j++) if (doc.latitudeDeg[j]! >= 0) expect(v.temperatureK[s]![j]!).toBeGreaterThanOrEqual(doc.iceEdgeK ?? -Infinity);
+        } else {
+          const j = doc.latitudeDeg.indexOf(edge);
+          expect(v.temperatureK[s]![j]!).toBeLessThan(doc.iceEdgeK!);
+        }
+      });
+    }
+  });
+});

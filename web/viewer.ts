@@ -8,6 +8,8 @@ import { startColumn, type ColumnDoc } from "./column.js";
 import { $ } from "./dom.js";
 import { startLumped } from "./lumped.js";
 import { startMap } from "./map.js";
+import { startZonal } from "./zonal.js";
+import type { ZonalViewDocument } from "../src/report/zonalReport.js";
 import type { MapViewDocument } from "../src/report/mapReport.js";
 import { startSweep } from "./sweep.js";
 
@@ -17,6 +19,7 @@ async function start(): Promise<void> {
   if (raw.kind === "sweep") return startSweep((raw as { file: string }).file, (raw as unknown as { table: SweepTable }).table);
   if (raw.kind === "column") return startColumn(raw as unknown as ColumnDoc);
   if (raw.kind === "map") return startMap(raw as unknown as MapViewDocument);
+  if (raw.kind === "zonal") return startZonal(raw as unknown as ZonalViewDocument);
   startLumped(raw as ResultDocument);
 }
 

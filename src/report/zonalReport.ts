@@ -4,7 +4,7 @@
  * every climate a run found (a warm start and a cold start can give two).
  */
 import type { BandSummary, ZonalSummary } from "../analysis/zonalSummary.js";
-import type { AlbedoSpec } from "../physics/climateAlbedo.js";
+import { albedoLaw, type AlbedoSpec } from "../physics/climateAlbedo.js";
 import type { HeatCapacitySpec } from "../physics/climateHeatCapacity.js";
 import type { OutgoingSpec } from "../physics/climateOutgoing.js";
 import { COLD_START_K, WARM_START_K, type ClimateSettings } from "../physics/climateSettings.js";
@@ -203,3 +203,52 @@ export function zonalProfileSvg(title: string, sim: ZonalSimulation): string {
   parts.push(`</svg>`);
   return parts.join("\n") + "\n";
 }
+
+/**
+ * What the viewer draws for a zonal climate: for each climate, temperature against latitude and
+ * time (uniform in time over the orbit), the ice edge in each hemisphere at each time (the
+ * equatormost band colder than the ice-edge temperature; none without ice), and the annual-mean profile.
+ */
+export function zonalViewDocument(resolved: ResolvedScenario, zonal: ZonalCase, sim: ZonalSimulation, climate: ClimateSettings, samples: number) {
+  const iceEdgeK = albedoLaw(climate.albedo).iceEdgeK;
+  const latitudeDeg = Array.from(sim.grid.latitudeRad, (r) => (r * 180) / Math.PI);
+  const n = sim.grid.count;
+  return {
+    kind: "zonal" as const,
+    ...zonalDocument(resolved, sim, climate),
+    iceEdgeK,
+    latitudeDeg,
+    views: sim.climates.map((c) => {
+      const series = zonalSeries(zonal, sim, c, samples);
+      const temperatureK: number[][] = [];
+      const northEdgeDeg: (number | null)[] = [];
+      const southEdgeDeg: (number | null)[] = [];
+      for (let s = 0; s < samples; s++) {
+        const row = Array.from(series.temperatureK.subarray(s * n, (s + 1) * n), (t) => Number(t.toPrecision(5)));
+        temperatureK.push(row);
+        let north: number | null = null;
+        let south: number | null = null;
+        if (iceEdgeK !== null) {
+          for (let j = 0; j < n; j++) {
+            if (row[j]! >= iceEdgeK) continue;
+            const lat = latitudeDeg[j]!;
+            if (lat >= 0 && (north === null || lat < north)) north = lat;
+            if (lat < 0 && (south === null || lat > south)) south = lat;
+          }
+        }
+        northEdgeDeg.push(north);
+        southEdgeDeg.push(south);
+      }
+      return {
+        start: c.start,
+        timeSeconds: Array.from(series.timeSeconds),
+        temperatureK,
+        northEdgeDeg,
+        southEdgeDeg,
+        meanProfileK: c.summary.bands.map((b) => b.temperature.meanK),
+      };
+    }),
+  };
+}
+
+export type ZonalViewDocument = ReturnType<typeof zonalViewDocument>;

@@ -29,7 +29,11 @@ async function viewCommand(path: string | undefined, flags: ViewFlags): Promise<
     resultJson = readFileSync(path, "utf8");
   } else {
     const { resolved, file } = loadScenario(path);
-    if (resolved.thermal.regime === "map") {
+    if (resolved.thermal.climate) {
+      const [{ zonalViewDocument }, { simulateZonal, zonalCaseOf }] = await Promise.all([import("../../report/zonalReport.js"), import("../../run/zonal.js")]);
+      const zonal = zonalCaseOf(resolved.thermal);
+      resultJson = JSON.stringify(zonalViewDocument(resolved, zonal, simulateZonal(zonal), resolved.thermal.climate, 200));
+    } else if (resolved.thermal.regime === "map") {
       const [{ mapViewDocument }, { observeMap }, { readPassband }] = await Promise.all([import("../../report/mapReport.js"), import("../../run/observeMap.js"), import("./runMap.js")]);
       resultJson = JSON.stringify(mapViewDocument(resolved, observeMap(readPassband(resolved, file), { samples: 400 })));
     } else if (resolved.thermal.column) {
