@@ -38,7 +38,11 @@ export interface Extremum {
 
 /**
  * Maximum (sign = 1) or minimum (sign = −1) of a sampled function with known derivatives,
- * refined between samples with the cubic Hermite interpolant (error O(h⁴)).
+ * refined between samples with the cubic Hermite interpolant (error O(h⁴)). Every interval where
+ * the slope turns is refined, not only those beside the best sample: a history with many
+ * near-equal peaks (a point's days) can have its best sample on another peak than its extremum
+ * (measured on a point with 365 solar days per orbit: the best sample's peak left the maximum
+ * 1.3e-5 low against an independent reference).
  */
 export function hermiteExtremum(xs: Float64Array, ys: Float64Array, ds: Float64Array, sign: 1 | -1): Extremum {
   let best = 0;
@@ -46,39 +50,48 @@ export function hermiteExtremum(xs: Float64Array, ys: Float64Array, ds: Float64A
   let result: Extremum = { x: xs[best]!, value: ys[best]! };
   // On a cycle the last sample repeats the first: a peak at either end may lie past the other end.
   const last = ys.length - 1;
-  const intervals = best === 0 || best === last ? [0, last - 1] : [best - 1, best];
-  for (const k of intervals) {
-    if (k < 0 || k + 1 >= ys.length) continue;
-    const xa = xs[k]!;
-    const xb = xs[k + 1]!;
-    const h = xb - xa;
-    // d/ds of the Hermite cubic is a quadratic a s² + b s + c; its roots in (0, 1) are candidates.
-    const ya = ys[k]!;
-    const yb = ys[k + 1]!;
-    const ma = h * ds[k]!;
-    const mb = h * ds[k + 1]!;
-    const a = 6 * ya + 3 * ma - 6 * yb + 3 * mb;
-    const b = -6 * ya - 4 * ma + 6 * yb - 2 * mb;
-    const c = ma;
-    const roots: number[] = [];
-    if (Math.abs(a) < 1e-300) {
-      if (b !== 0) roots.push(-c / b);
-    } else {
-      const disc = b * b - 4 * a * c;
-      if (disc >= 0) {
-        const q = -0.5 * (b + Math.sign(b || 1) * Math.sqrt(disc));
-        roots.push(q / a);
-        if (q !== 0) roots.push(c / q);
-      }
-    }
-    for (const s of roots) {
-      if (!(s > 0 && s < 1)) continue;
-      const x = xa + s * h;
-      const v = hermite(xa, xb, ya, yb, ds[k]!, ds[k + 1]!, x);
-      if (sign * v > sign * result.value) result = { x, value: v };
-    }
+  const firstNearBest = best === 0 || best === last ? 0 : best - 1;
+  const wrapNearBest = best === 0 || best === last ? last - 1 : best;
+  for (let k = 0; k < last; k++) {
+    const turns = sign * ds[k]! > 0 && sign * ds[k + 1]! <= 0;
+    if (!turns && k !== firstNearBest && k !== wrapNearBest) continue;
+    const refined = refineInterval(xs, ys, ds, k, sign);
+    if (refined !== null && sign * refined.value > sign * result.value) result = refined;
   }
   return result;
+}
+
+/** The extremum of the Hermite cubic on [xs[k], xs[k+1]] strictly inside it, or null. */
+function refineInterval(xs: Float64Array, ys: Float64Array, ds: Float64Array, k: number, sign: 1 | -1): Extremum | null {
+  const xa = xs[k]!;
+  const xb = xs[k + 1]!;
+  const h = xb - xa;
+  // d/ds of the Hermite cubic is a quadratic a s² + b s + c; its roots in (0, 1) are candidates.
+  const ya = ys[k]!;
+  const yb = ys[k + 1]!;
+  const ma = h * ds[k]!;
+  const mb = h * ds[k + 1]!;
+  const a = 6 * ya + 3 * ma - 6 * yb + 3 * mb;
+  const b = -6 * ya - 4 * ma + 6 * yb - 2 * mb;
+  const c = ma;
+  let found: Extremum | null = null;
+  const consider = (s: number): void => {
+    if (!(s > 0 && s < 1)) return;
+    const x = xa + s * h;
+    const v = hermite(xa, xb, ya, yb, ds[k]!, ds[k + 1]!, x);
+    if (found === null || sign * v > sign * found.value) found = { x, value: v };
+  };
+  if (Math.abs(a) < 1e-300) {
+    if (b !== 0) consider(-c / b);
+  } else {
+    const disc = b * b - 4 * a * c;
+    if (disc >= 0) {
+      const q = -0.5 * (b + Math.sign(b || 1) * Math.sqrt(disc));
+      consider(q / a);
+      if (q !== 0) consider(c / q);
+    }
+  }
+  return found;
 }
 
 /**
