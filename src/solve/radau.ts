@@ -1,15 +1,23 @@
 /**
  * A small L-stable implicit integrator for stiff cases (radiative time τ ≪ the forcing period),
- * where the explicit extrapolation of odex would be held to steps of order τ.
+ * where an explicit method would be held to steps of order τ.
  *
  * Three-stage Radau IIA collocation, order 5, stiffly accurate (Hairer & Wanner, Solving Ordinary
  * Differential Equations II, 2nd ed. 1996, §IV.5, Table 5.6). The stage equations
  * Z = h (A ⊗ I) F(y + Z) are solved by simplified Newton with the Jacobian frozen at the step's
- * start. The local error comes from step doubling (one step of h against two of h/2; the
- * difference over 2⁵ − 1 estimates the error of the pair, Richardson), and the pair of half
- * steps is kept. Dense output is a quintic Hermite interpolant where h|J| < 1 and each half
- * step's collocation polynomial where the step is stiff; while sampling, steps are also capped at
- * a fraction of the interval so the interpolation error stays far below the tolerance.
+ * start, starting from the previous step's collocation polynomial extrapolated. The local error
+ * comes from the embedded estimate of §IV.8 (eqs. 8.19–8.20):
+ * err = (I − hγ₀J)⁻¹ (γ₀ h f(x₀, y₀) + e₁Z₁ + e₂Z₂ + e₃Z₃), γ₀ = 1/γ̂ with γ̂ the real eigenvalue of
+ * A⁻¹, filtered once more through (I − hγ₀J)⁻¹ after a rejection so that it stays bounded for
+ * stiff components; it is O(h⁴), so steps scale with err^(−1/4). One step costs the Newton
+ * iterations (three evaluations each) plus one evaluation at its end, where step doubling cost
+ * three such steps.
+ *
+ * Dense output is the step's collocation polynomial (through y₀ and y₀ + Zᵢ at x₀ + cᵢh: Radau's
+ * own continuous extension, §IV.8). While sampling, steps are capped at a fraction of the
+ * interval, and a non-stiff step (h|J| < 1) whose collocation polynomial departs from the cubic
+ * Hermite interpolant of its ends by more than the tolerance is refused: that is a step across a
+ * corner of the forcing (a sunrise), fine at its end but not in between.
  */
 import { CalorbitError } from "../errors.js";
 import { emitStart, perDimension, type DenseSamples, type IntegrateOptions, type Integrator, type OdeSystem, type SolverWork } from "./system.js";
@@ -21,8 +29,15 @@ const A = [
   [(296 + 169 * SQRT6) / 1800, (88 + 7 * SQRT6) / 360, (-2 - 3 * SQRT6) / 225],
   [(16 - SQRT6) / 36, (16 + SQRT6) / 36, 1 / 9],
 ] as const;
-const ORDER = 5;
-const RICHARDSON = 2 ** ORDER - 1;
+/** γ̂, the real eigenvalue of A⁻¹ (Hairer & Wanner 1996, §IV.8); γ₀ = 1/γ̂. */
+const GAMMA_HAT = 30 / (6 + Math.cbrt(81) - Math.cbrt(9));
+const GAMMA0 = 1 / GAMMA_HAT;
+/** The embedded estimate's weights eᵢ = γ₀ dᵢ on the stage increments (§IV.8, eq. 8.20). */
+const E1 = (GAMMA0 * -(13 + 7 * SQRT6)) / 3;
+const E2 = (GAMMA0 * (-13 + 7 * SQRT6)) / 3;
+const E3 = (GAMMA0 * -1) / 3;
+/** The error estimate is O(h⁴). */
+const ESTIMATE_ORDER = 4;
 const SAFETY = 0.9;
 const MAX_GROWTH = 4;
 const MIN_SHRINK = 0.2;
@@ -30,9 +45,7 @@ const MAX_NEWTON = 10;
 /** Newton stops when the update is this fraction of the error tolerance. */
 const NEWTON_FRACTION = 0.01;
 /** While sampling, a step is at most this fraction of the interval (keeps the interpolant's error small). */
-const SAMPLING_STEP_FRACTION = 1 / 128; // a half step is then 1/256 of the interval
-/** How much better the half steps' interpolants are than the full step's (2⁴, the interpolant's order). */
-const DENSE_GAIN = 16;
+const SAMPLING_STEP_FRACTION = 1 / 256;
 const DEFAULT_MAX_STEPS = 200_000;
 
 class Workspace {
@@ -43,18 +56,20 @@ class Workspace {
   readonly lu: Float64Array;
   readonly pivot: Int32Array;
   readonly rhs: Float64Array;
-  readonly yBig: Float64Array;
-  readonly yMid: Float64Array;
-  readonly fMid: Float64Array;
-  readonly ySmall: Float64Array;
-  readonly fEnd: Float64Array;
+  /** LU of I − hγ₀J (the error estimate's filter). */
+  readonly luError: Float64Array;
+  readonly pivotError: Int32Array;
+  readonly yNew: Float64Array;
+  readonly fNew: Float64Array;
+  readonly err: Float64Array;
+  readonly errStage: Float64Array;
+  /** e₁Z₁ + e₂Z₂ + e₃Z₃ of the current step. */
+  readonly ez: Float64Array;
   /** Scratch for one stage's derivative. */
   readonly fStage: Float64Array;
-  /** Converged stage increments Z of the first and second half steps (dense output). */
-  readonly zFirst: Float64Array;
-  readonly zSecond: Float64Array;
-  /** Stage increments of the full step (the dense-output check while sampling). */
-  readonly zBig: Float64Array;
+  /** Stage increments of the last accepted step (its collocation polynomial predicts the next step's stages). */
+  readonly zPrevious: Float64Array;
+  readonly yPrevious: Float64Array;
   evaluations = 0;
   constructor(readonly n: number) {
     const m = 3 * n;
@@ -65,32 +80,23 @@ class Workspace {
     this.lu = new Float64Array(m * m);
     this.pivot = new Int32Array(m);
     this.rhs = new Float64Array(m);
-    this.yBig = new Float64Array(n);
-    this.yMid = new Float64Array(n);
-    this.fMid = new Float64Array(n);
-    this.ySmall = new Float64Array(n);
-    this.fEnd = new Float64Array(n);
+    this.luError = new Float64Array(n * n);
+    this.pivotError = new Int32Array(n);
+    this.yNew = new Float64Array(n);
+    this.fNew = new Float64Array(n);
+    this.err = new Float64Array(n);
+    this.errStage = new Float64Array(n);
+    this.ez = new Float64Array(n);
     this.fStage = new Float64Array(n);
-    this.zFirst = new Float64Array(m);
-    this.zSecond = new Float64Array(m);
-    this.zBig = new Float64Array(m);
+    this.zPrevious = new Float64Array(m);
+    this.yPrevious = new Float64Array(n);
   }
 }
 
 const workspaceFor = perDimension((n) => new Workspace(n));
 
-/** LU (partial pivoting) of I − h (A ⊗ J) in w.lu. Returns false when singular. */
-function factorise(w: Workspace, h: number): boolean {
-  const { n, jac, lu, pivot } = w;
-  const m = 3 * n;
-  for (let bi = 0; bi < 3; bi++) {
-    for (let bj = 0; bj < 3; bj++) {
-      const a = A[bi]![bj]! * h;
-      for (let r = 0; r < n; r++) {
-        for (let c = 0; c < n; c++) lu[(bi * n + r) * m + bj * n + c] = (bi === bj && r === c ? 1 : 0) - a * jac[r * n + c]!;
-      }
-    }
-  }
+/** LU with partial pivoting of the m×m matrix in `lu`, in place. Returns false when singular. */
+function luInPlace(lu: Float64Array, pivot: Int32Array, m: number): boolean {
   for (let col = 0; col < m; col++) {
     let best = col;
     for (let r = col + 1; r < m; r++) if (Math.abs(lu[r * m + col]!) > Math.abs(lu[best * m + col]!)) best = r;
@@ -112,9 +118,8 @@ function factorise(w: Workspace, h: number): boolean {
   return true;
 }
 
-function backSolve(w: Workspace, b: Float64Array): void {
-  const { lu, pivot } = w;
-  const m = 3 * w.n;
+/** Solves (LU) x = b in place. */
+function luSolve(lu: Float64Array, pivot: Int32Array, m: number, b: Float64Array): void {
   for (let i = 0; i < m; i++) {
     const p = pivot[i]!;
     if (p !== i) {
@@ -130,25 +135,29 @@ function backSolve(w: Workspace, b: Float64Array): void {
   }
 }
 
+/** Factorises I − h (A ⊗ J) (the stage system) and I − hγ₀J (the error filter). Returns false when singular. */
+function factorise(w: Workspace, h: number): boolean {
+  const { n, jac, lu, luError } = w;
+  const m = 3 * n;
+  for (let bi = 0; bi < 3; bi++) {
+    for (let bj = 0; bj < 3; bj++) {
+      const a = A[bi]![bj]! * h;
+      for (let r = 0; r < n; r++) {
+        for (let c = 0; c < n; c++) lu[(bi * n + r) * m + bj * n + c] = (bi === bj && r === c ? 1 : 0) - a * jac[r * n + c]!;
+      }
+    }
+  }
+  for (let r = 0; r < n; r++) for (let c = 0; c < n; c++) luError[r * n + c] = (r === c ? 1 : 0) - h * GAMMA0 * jac[r * n + c]!;
+  return luInPlace(lu, w.pivot, m) && luInPlace(luError, w.pivotError, n);
+}
+
 /**
- * One Radau IIA step of size h from (x, y) into `out`; f at the end into `fOut`.
+ * Solves the stage equations of one step of size h from (x, y), starting from the stage
+ * increments already in w.z. On success w.z holds Z, w.yNew = y + Z₃ (stiffly accurate).
  * Returns false when Newton fails to converge (the caller shrinks h).
  */
-function radauStep(
-  system: OdeSystem,
-  w: Workspace,
-  x: number,
-  y: ArrayLike<number>,
-  h: number,
-  scale: Float64Array,
-  out: Float64Array,
-  fOut: Float64Array,
-  zOut?: Float64Array,
-): boolean {
+function solveStages(system: OdeSystem, w: Workspace, x: number, y: ArrayLike<number>, h: number, scale: Float64Array): boolean {
   const { n, z, f, stage, rhs } = w;
-  system.jacobian(x, y, w.jac);
-  if (!factorise(w, h)) return false;
-  z.fill(0);
   for (let iter = 0; iter < MAX_NEWTON; iter++) {
     for (let s = 0; s < 3; s++) {
       for (let i = 0; i < n; i++) stage[i] = y[i]! + z[s * n + i]!;
@@ -161,7 +170,7 @@ function radauStep(
         rhs[s * n + i] = -z[s * n + i]! + h * (A[s]![0]! * f[i]! + A[s]![1]! * f[n + i]! + A[s]![2]! * f[2 * n + i]!);
       }
     }
-    backSolve(w, rhs);
+    luSolve(w.lu, w.pivot, 3 * n, rhs);
     let update = 0;
     for (let k = 0; k < 3 * n; k++) {
       z[k]! += rhs[k]!;
@@ -169,14 +178,55 @@ function radauStep(
       update = Math.max(update, Math.abs(rhs[k]!) / scale[k % n]!);
     }
     if (update <= NEWTON_FRACTION) {
-      for (let i = 0; i < n; i++) out[i] = y[i]! + z[2 * n + i]!; // stiffly accurate: y₁ = y₀ + Z₃
-      if (zOut) zOut.set(z);
-      system.derivative(x + h, out, fOut);
-      w.evaluations++;
+      for (let i = 0; i < n; i++) w.yNew[i] = y[i]! + z[2 * n + i]!;
       return true;
     }
   }
   return false;
+}
+
+/**
+ * The embedded error estimate's weighted RMS norm (Hairer & Wanner 1996, §IV.8): err =
+ * (I − hγ₀J)⁻¹ (γ₀ h f₀ + Σ eᵢZᵢ); when that is above 1 on a first or rejected step, once more
+ * with f evaluated at y₀ + err in place of f₀, which keeps it bounded for stiff components.
+ */
+function errorNorm(
+  system: OdeSystem,
+  w: Workspace,
+  x: number,
+  y: ArrayLike<number>,
+  f0: ArrayLike<number>,
+  h: number,
+  atol: Float64Array,
+  rtol: number,
+  refine: boolean,
+): number {
+  const { n, z, err, ez } = w;
+  for (let i = 0; i < n; i++) {
+    ez[i] = E1 * z[i]! + E2 * z[n + i]! + E3 * z[2 * n + i]!;
+    err[i] = GAMMA0 * h * f0[i]! + ez[i]!;
+  }
+  luSolve(w.luError, w.pivotError, n, err);
+  let norm = weightedNorm(w, y, atol, rtol);
+  if (norm >= 1 && refine) {
+    for (let i = 0; i < n; i++) w.errStage[i] = y[i]! + err[i]!;
+    system.derivative(x, w.errStage, w.fStage);
+    w.evaluations++;
+    for (let i = 0; i < n; i++) err[i] = GAMMA0 * h * w.fStage[i]! + ez[i]!;
+    luSolve(w.luError, w.pivotError, n, err);
+    norm = weightedNorm(w, y, atol, rtol);
+  }
+  return norm;
+}
+
+function weightedNorm(w: Workspace, y: ArrayLike<number>, atol: Float64Array, rtol: number): number {
+  const { n, err, yNew } = w;
+  let sum = 0;
+  for (let i = 0; i < n; i++) {
+    const e = err[i]! / (atol[i]! + rtol * Math.max(Math.abs(y[i]!), Math.abs(yNew[i]!)));
+    sum += e * e;
+  }
+  return Math.sqrt(sum / n);
 }
 
 export const integrateRadau: Integrator = (
@@ -203,80 +253,98 @@ export const integrateRadau: Integrator = (
   let h = Math.min(maxStep, span * 1e-3);
   let steps = 0;
   let rejected = 0;
+  let lastRejected = false;
+  let previousH = 0; // 0: no previous step to predict the stages from
   system.derivative(x, y, fStart);
   w.evaluations++;
   if (samples) nextSample = emitStart(samples, x0, y);
+  let jacobianAt = NaN;
 
   while (x < x1) {
     if (steps >= maxSteps) throw new CalorbitError("INTEGRATION_FAILED", `the implicit solver exceeded ${maxSteps} steps`);
     const last = x + h >= x1;
     if (last) h = x1 - x;
+    if (jacobianAt !== x) {
+      // A rejected step retries from the same (x, y): its Jacobian still holds.
+      system.jacobian(x, y, w.jac);
+      jacobianAt = x;
+    }
     for (let i = 0; i < n; i++) scale[i] = atol[i]! + rtol * Math.abs(y[i]!);
-    const half = 0.5 * h;
-    const ok =
-      radauStep(system, w, x, y, h, scale, w.yBig, w.fEnd, samples ? w.zBig : undefined) &&
-      radauStep(system, w, x, y, half, scale, w.yMid, w.fMid, w.zFirst) &&
-      radauStep(system, w, x + half, w.yMid, half, scale, w.ySmall, w.fEnd, w.zSecond);
-    if (!ok) {
+    if (!factorise(w, h)) {
       h *= 0.5;
       rejected++;
+      lastRejected = true;
       continue;
     }
-    let errSq = 0;
-    for (let i = 0; i < n; i++) {
-      const sc = atol[i]! + rtol * Math.max(Math.abs(y[i]!), Math.abs(w.ySmall[i]!));
-      const e = (w.ySmall[i]! - w.yBig[i]!) / RICHARDSON / sc;
-      errSq += e * e;
+    // Starting stages: the previous step's collocation polynomial, extrapolated (zero on the first step).
+    if (previousH > 0) {
+      for (let s = 0; s < 3; s++) {
+        const u = 1 + (C[s]! * h) / previousH;
+        for (let i = 0; i < n; i++) w.z[s * n + i] = collocationAt(u, w.yPrevious[i]!, w.zPrevious, n, i) - y[i]!;
+      }
+    } else {
+      w.z.fill(0);
     }
-    const err = Math.sqrt(errSq / n);
-    const factor = err === 0 ? MAX_GROWTH : Math.min(MAX_GROWTH, Math.max(MIN_SHRINK, SAFETY * err ** (-1 / (ORDER + 1))));
+    if (!solveStages(system, w, x, y, h, scale)) {
+      h *= 0.5;
+      rejected++;
+      lastRejected = true;
+      continue;
+    }
+    const err = errorNorm(system, w, x, y, fStart, h, atol, rtol, steps === 0 || lastRejected);
+    const factor = err === 0 ? MAX_GROWTH : Math.min(MAX_GROWTH, Math.max(MIN_SHRINK, SAFETY * err ** (-1 / ESTIMATE_ORDER)));
     if (!(err <= 1)) {
       h *= Math.min(factor, 0.5);
       rejected++;
+      lastRejected = true;
       continue;
     }
     const xEnd = last ? x1 : x + h;
-    // While sampling, the interpolant must be as good as the step's end: the full step's
-    // collocation polynomial at its midpoint, against the two half steps' value there, estimates
-    // the O(h⁴) interpolation error of the full step; the half steps' own interpolants are about
-    // 2⁴ times better. A step across a corner of the forcing (a sunrise) is refused here even when
-    // its end value is fine.
+    system.derivative(xEnd, w.yNew, w.fNew);
+    w.evaluations++;
     if (samples) {
-      let denseSq = 0;
-      for (let i = 0; i < n; i++) {
-        const sc = atol[i]! + rtol * Math.max(Math.abs(y[i]!), Math.abs(w.yMid[i]!));
-        const e = (collocationAt(0.5, y[i]!, w.zBig, n, i) - w.yMid[i]!) / (DENSE_GAIN * sc);
-        denseSq += e * e;
-      }
-      const denseErr = Math.sqrt(denseSq / n);
-      if (!(denseErr <= 1)) {
-        h *= Math.max(MIN_SHRINK, Math.min(0.5, SAFETY * denseErr ** -0.25));
-        rejected++;
-        continue;
-      }
-    }
-    if (samples) {
-      // Where h|J| is small, f carries the state's error harmlessly and the O(h⁶) Hermite form is
-      // best; where it is large (the stiff regime), only the values-based collocation form is safe.
+      // A non-stiff step across a corner of the forcing (a sunrise) can be fine at its end and
+      // not in between: its collocation polynomial then departs from the cubic Hermite
+      // interpolant of its ends (both O(h⁴) where the solution is smooth) at the midpoint.
       let stiffness = 0;
       for (let i = 0; i < n * n; i++) stiffness = Math.max(stiffness, Math.abs(w.jac[i]!));
       if (h * stiffness < 1) {
-        nextSample = emitHermite(samples, nextSample, x, xEnd, y, fStart, w.yMid, w.fMid, w.ySmall, w.fEnd);
-      } else {
-        nextSample = emitCollocation(samples, nextSample, x, x + half, y, w.zFirst, n);
-        nextSample = emitCollocation(samples, nextSample, x + half, xEnd, w.yMid, w.zSecond, n);
+        let denseSq = 0;
+        for (let i = 0; i < n; i++) {
+          const sc = atol[i]! + rtol * Math.max(Math.abs(y[i]!), Math.abs(w.yNew[i]!));
+          const e = (collocationAt(0.5, y[i]!, w.z, n, i) - hermite3Mid(y[i]!, fStart[i]!, w.yNew[i]!, w.fNew[i]!, h)) / sc;
+          denseSq += e * e;
+        }
+        const denseErr = Math.sqrt(denseSq / n);
+        if (!(denseErr <= 1)) {
+          h *= Math.max(MIN_SHRINK, Math.min(0.5, SAFETY * denseErr ** (-1 / ESTIMATE_ORDER)));
+          rejected++;
+          lastRejected = true;
+          continue;
+        }
       }
+      nextSample = emitCollocation(samples, nextSample, x, xEnd, y, w.z, n);
     }
     for (let i = 0; i < n; i++) {
-      y[i] = w.ySmall[i]!;
-      fStart[i] = w.fEnd[i]!;
+      w.yPrevious[i] = y[i]!;
+      y[i] = w.yNew[i]!;
+      fStart[i] = w.fNew[i]!;
     }
+    w.zPrevious.set(w.z);
+    previousH = h;
     x = xEnd;
     steps++;
-    h = Math.min(maxStep, h * factor);
+    // After a rejection the step may not grow at once (Hairer & Wanner 1996, §IV.8, the usual safeguard).
+    h = Math.min(maxStep, h * (lastRejected ? Math.min(1, factor) : factor));
+    lastRejected = false;
   }
   return { steps, rejected, evaluations: w.evaluations };
 };
+
+/** The cubic Hermite interpolant through (0, ya, fa) and (h, yb, fb) at h/2. */
+function hermite3Mid(ya: number, fa: number, yb: number, fb: number, h: number): number {
+  return 0.5 * (ya + yb) + (h / 8) * (fa - fb);
+}
 
 /** Lagrange basis weights of the collocation nodes 0, c₁, c₂, 1 (barycentric form). */
 const NODES = [0, C[0], C[1], 1] as const;
@@ -333,53 +401,6 @@ function emitCollocation(
         den += wj;
       }
       ys[base + i] = num / den;
-    }
-    k++;
-  }
-  return k;
-}
-
-/**
- * Writes, at every pending sample in (xa, xb], the quintic Hermite interpolant through the
- * values and derivatives at both ends and at the midpoint (the pair of half steps supplies all
- * three), in Newton form on the nodes 0, 0, ½, ½, 1, 1; its error is O(h⁶).
- */
-function emitHermite(
-  samples: DenseSamples,
-  from: number,
-  xa: number,
-  xb: number,
-  ya: ArrayLike<number>,
-  fa: ArrayLike<number>,
-  ym: ArrayLike<number>,
-  fm: ArrayLike<number>,
-  yb: ArrayLike<number>,
-  fb: ArrayLike<number>,
-): number {
-  const { xs, ys, components } = samples;
-  const h = xb - xa;
-  const slack = Math.abs(xb) * 1e-12;
-  let k = from;
-  while (k < xs.length && xs[k]! <= xb + slack) {
-    const base = k * components;
-    const u = (xs[k]! - xa) / h;
-    const uh = u - 0.5;
-    for (let i = 0; i < components; i++) {
-      const d0 = h * fa[i]!;
-      const dm = h * fm[i]!;
-      const d1 = h * fb[i]!;
-      const q0m = 2 * (ym[i]! - ya[i]!);
-      const qm1 = 2 * (yb[i]! - ym[i]!);
-      const c2 = 2 * (q0m - d0);
-      const c0mm = 2 * (dm - q0m);
-      const cmm1 = 2 * (qm1 - dm);
-      const cm11 = 2 * (d1 - qm1);
-      const c3 = 2 * (c0mm - c2);
-      const t0mm1 = cmm1 - c0mm;
-      const tmm11 = 2 * (cm11 - cmm1);
-      const c4 = t0mm1 - c3;
-      const c5 = tmm11 - t0mm1 - c4;
-      ys[base + i] = ya[i]! + u * (d0 + u * (c2 + uh * (c3 + uh * (c4 + c5 * (u - 1)))));
     }
     k++;
   }
