@@ -53,7 +53,9 @@ function problemFor(c: ThermalCase): Problem {
   const e = orbit.eccentricity;
   const n = TWO_PI / orbit.periodSeconds;
   const sigmaEps = surface.emissivity * STEFAN_BOLTZMANN;
-  const inverseC = 1 / surface.heatCapacityJPerM2K;
+  const heatCapacity = surface.heatCapacityJPerM2K;
+  if (heatCapacity === undefined) throw new Error("reference: slab cases only");
+  const inverseC = 1 / heatCapacity;
   const q = surface.internalFluxWPerM2;
   const flux = (E: number): number => {
     const r = orbit.semiMajorAxisM * (1 - e * Math.cos(E));
