@@ -23,6 +23,7 @@ import { fileURLToPath } from "node:url";
 import { simulate, type Simulation, type ThermalCase } from "../src/index.js";
 import { simulateColumn } from "../src/run/simulateColumn.js";
 import { AU, bandCase, dayNightCase, meanFluxEquilibriumK, pointCase, slabCase, SOLAR_LUMINOSITY } from "./cases.js";
+import { climateBenchLines } from "./climate.js";
 import { columnCase, columnSpec } from "./columnCase.js";
 
 const quick = process.argv.includes("--quick");
@@ -306,6 +307,10 @@ for (const [days, targetS] of [
     }
   }
 }
+
+// 9. The zonal climate's figures (bench/climate.ts, the climate side): full mode only, its sweep takes minutes.
+if (quick) console.log("zonal climate: skipped in quick mode (node dist/bench/climate.js runs it alone)");
+else for (const line of climateBenchLines()) console.log(line);
 
 console.log(`benchmark took ${((performance.now() - startedAt) / 1000).toFixed(0)} s; load average ${loadavg().map((x) => x.toFixed(1)).join(" ")} at the end`);
 if (failures.length > 0) {
