@@ -10,6 +10,7 @@ import { CalorbitError, requireNumber } from "../errors.js";
 import type { ThermalCase } from "../model/thermalCase.js";
 import { eccentricAnomaly } from "../physics/kepler.js";
 import { chooseIntegrator, integrateCycle, INTEGRATORS, plainOdeTolerance, solvePeriodic, type IntegratorName } from "../solve/periodic.js";
+import { switchPoints } from "../solve/corners.js";
 import { addWork, emptyWork, type SolverWork } from "../solve/system.js";
 import { buildThermalModel, type SlabModel } from "../model/build.js";
 import { exchangeCarriesHeat } from "../model/exchange.js";
@@ -137,6 +138,7 @@ export function simulate(thermal: ThermalCase, options: SimulateOptions = {}): S
         stiffness: model.stiffness,
         maxStepsPerCycle: maxStepsPerOrbit * model.cycleOrbits,
         forcingHasCorners: model.forcingHasCorners,
+        ...breakpointsOf(thermal, model, startE),
         memoryEstimate: -Math.expm1((-model.cycleOrbits * orbit.periodSeconds) / model.radiativeTimeSeconds),
       },
       { relativeTolerance: rtol, samples: grids.dense, ...(options.integrator ? { integrator: options.integrator } : {}) },
@@ -182,6 +184,27 @@ export function simulate(thermal: ThermalCase, options: SimulateOptions = {}): S
   orbitsIntegrated += sampledOrbits;
   solver = report(mode, integrator, rtol, odeTol, 0, orbitsIntegrated, change, work);
   return finish(thermal, model, grids, solver);
+}
+
+/**
+ * The corners of the forcing, for the periodic solve to end steps on: a point's sunrises and
+ * sunsets (a scan at a quarter of the statistics grid, then bisection), and none at all for a band
+ * that never sees a polar day or night (|latitude| + obliquity < 90°), whose daily mean is smooth.
+ * Other cases keep the fine tolerance that corners inside steps need.
+ */
+function breakpointsOf(thermal: ThermalCase, model: SlabModel, startE: number): { breakpoints?: Float64Array } {
+  if (!model.forcingHasCorners) return {};
+  if (thermal.regime === "point") {
+    const end = startE + TWO_PI * model.cycleOrbits;
+    const scan = Math.ceil((model.statsPointsPerOrbit * model.cycleOrbits) / 4);
+    return { breakpoints: switchPoints((E) => model.absorbedAt(E, 0), startE, end, scan) };
+  }
+  if (thermal.regime === "band") {
+    const obliquity = thermal.spin?.obliquityRad ?? 0;
+    const tilt = Math.min(obliquity, Math.PI - obliquity);
+    if (Math.abs(thermal.location?.latitudeRad ?? 0) + tilt < 0.5 * Math.PI - 1e-6) return { breakpoints: new Float64Array(0) };
+  }
+  return {};
 }
 
 function report(

@@ -244,13 +244,14 @@ export const integrateRadau: Integrator = (
   const maxSteps = options.maxSteps ?? DEFAULT_MAX_STEPS;
   const samples = options.samples;
   const span = x1 - x0;
-  const maxStep = samples ? SAMPLING_STEP_FRACTION * span : span / 8;
+  const capSpan = options.cycleSpan ?? span;
+  const maxStep = samples ? SAMPLING_STEP_FRACTION * capSpan : capSpan / 8;
   const scale = new Float64Array(n);
   const fStart = new Float64Array(n);
   let nextSample = 0;
 
   let x = x0;
-  let h = Math.min(maxStep, span * 1e-3);
+  let h = Math.min(maxStep, capSpan * 1e-3, span);
   let steps = 0;
   let rejected = 0;
   let lastRejected = false;

@@ -75,6 +75,8 @@ export interface IntegrateOptions {
   samples?: DenseSamples;
   /** Hard cap on accepted steps; exceeding it raises INTEGRATION_FAILED. */
   maxSteps?: number;
+  /** Length of the whole integration this call is one arc of (step caps are fractions of it); default x1 − x0. */
+  cycleSpan?: number;
 }
 
 /** An integrator advances y from x0 to x1 in place and reports its work. */
