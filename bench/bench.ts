@@ -25,6 +25,7 @@ import { simulateColumn } from "../src/run/simulateColumn.js";
 import { AU, bandCase, dayNightCase, meanFluxEquilibriumK, pointCase, slabCase, SOLAR_LUMINOSITY } from "./cases.js";
 import { climateBenchLines } from "./climate.js";
 import { columnCase, columnSpec } from "./columnCase.js";
+import { mapFigures } from "./mapBench.js";
 
 const quick = process.argv.includes("--quick");
 const startedAt = performance.now();
@@ -308,7 +309,17 @@ for (const [days, targetS] of [
   }
 }
 
-// 9. The zonal climate's figures (bench/climate.ts, the climate side): full mode only, its sweep takes minutes.
+// 9. The map regime's figures (bench/mapBench.ts, the map side), checked against closed forms there.
+{
+  const { figures, wrong } = mapFigures();
+  for (const f of figures) figure(f.name, fmt(f.value), f.unit, f.target, f.met, f.details ?? "");
+  for (const line of wrong) {
+    failures.push(line);
+    console.log(`WRONG ${line}`);
+  }
+}
+
+// 10. The zonal climate's figures (bench/climate.ts, the climate side): full mode only, its sweep takes minutes.
 if (quick) console.log("zonal climate: skipped in quick mode (node dist/bench/climate.js runs it alone)");
 else for (const line of climateBenchLines()) console.log(line);
 
