@@ -10,6 +10,7 @@ import { VERSION } from "../version.js";
 import { registerCheck } from "./commands/check.js";
 import { registerCompare } from "./commands/compare.js";
 import { registerEquilibrium } from "./commands/equilibrium.js";
+import { registerFit } from "./commands/fit.js";
 import { registerInsolation } from "./commands/insolation.js";
 import { registerRun } from "./commands/run.js";
 import { registerSchema } from "./commands/schema.js";
@@ -29,6 +30,7 @@ const COMMANDS: readonly ((program: Command) => void)[] = [
   registerCheck,
   registerSchema,
   registerEquilibrium,
+  registerFit,
 ];
 
 export function buildProgram(): Command {
