@@ -244,3 +244,50 @@ describe("ensemble sampler (Goodman & Weare 2010 stretch move)", () => {
     expect(autocorrelationTime(chain) / 19).toBeLessThan(1.1);
   });
 });
+
+/**
+ * An observed case, as a self-consistency check (both series come from calorbit): the lunar equator's
+ * night-time cooling computed with the regolith profile of Hayne et al. (2017, JGR Planets 122, 2371;
+ * the same parameters as test/column.test.ts, from memory: ρ 1100 → 1800 kg m⁻³, k_c 7.4e-4 → 3.4e-3
+ * W m⁻¹ K⁻¹ on H = 0.07 m, χ = 2.7, their c(T), A = 0.12, ε = 0.95, 0.018 W m⁻²), fitted with a
+ * homogeneous regolith (their surface density and c(T), no radiative term) for its thermal inertia
+ * at 273 K. Hayne et al. summarise the layered regolith by a thermal inertia of about 55 J m⁻² K⁻¹ s⁻½
+ * at 273 K (from memory); the single-layer fit must land near it. The solar day is the synodic month
+ * (a 2:1 spin on a one-month orbit at 1 au), on a coarse grid to keep the ~20 column runs cheap.
+ */
+describe("lunar night-time cooling (self-consistency)", () => {
+  it("fits a homogeneous regolith's thermal inertia near Hayne et al.'s 55 J m⁻² K⁻¹ s⁻½ at 273 K", () => {
+    const cT = [-3.6125, 2.7431, 2.3616e-3, -1.234e-5, 8.9093e-9];
+    const c273 = cT.reduce((sum, a, i) => sum + a * 273 ** i, 0);
+    const grid = { stepsPerDay: 192, topLayerFraction: 0.1, growth: 1.3 };
+    const layered = {
+      name: "Lunar equator (test)",
+      star: { luminosity: "1 Lsun" },
+      orbit: { semiMajorAxis: "1 au", eccentricity: 0, period: "29.530589 d" },
+      body: {
+        albedo: 0.12,
+        emissivity: 0.95,
+        internalFlux: 0.018,
+        column: { profile: { surfaceDensity: 1100, deepDensity: 1800, surfaceConductivity: 7.4e-4, deepConductivity: 3.4e-3, eFoldingDepth: "0.07 m" }, radiativeConductivity: 2.7, specificHeatPolynomial: cT, grid },
+      },
+      regime: "point",
+      spin: { orbitRatio: "2:1" },
+      surface: { latitude: 0, longitude: 0 },
+    };
+    // The "observed" night: every 50th sample of the layered run where the point is dark.
+    const truthSettings: ForwardSettings = { scenario: layered, parameters: [], output: { spec: "surface", kind: "surface", quantity: "temperature" }, relativeTolerance: 1e-5, samples: 2000 };
+    const month = 29.530589 * DAY;
+    const all = Float64Array.from({ length: 60 }, (_, i) => (i * month) / 60);
+    const full = new ForwardModel(truthSettings, observationsAt(all, null)).predict([]);
+    // Night at longitude 0 with the star overhead at t = 0: local times 6 pm to 6 am, i.e. t ∈ (P/4, 3P/4).
+    const night = Array.from(all.keys()).filter((i) => all[i]! > 0.27 * month && all[i]! < 0.73 * month);
+    const times = Float64Array.from(night, (i) => all[i]!);
+    const obs = { ...observationsAt(times, new Float64Array(night.length).fill(1)), value: Float64Array.from(night, (i) => full[i]!) };
+    expect(Math.min(...obs.value)).toBeGreaterThan(85); // pre-dawn ≈ 95 K (test/column.test.ts)
+    const homogeneous = { ...layered, body: { ...layered.body, column: { thermalInertia: 50, density: 1100, specificHeat: c273, specificHeatPolynomial: cT, grid } } };
+    const parameters = [parseFreeParameter("body.column.thermalInertia=10..500", DAY)];
+    const fit = fitBest(new ForwardModel({ scenario: homogeneous, parameters, output: { spec: "surface", kind: "surface", quantity: "temperature" }, relativeTolerance: 1e-4, samples: 300 }, obs), parameters, { starts: 1 });
+    expect(fit.converged).toBe(true);
+    expect(Math.abs(fit.values[0]! - 55) / 55).toBeLessThan(0.15);
+  });
+});

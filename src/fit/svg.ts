@@ -79,7 +79,7 @@ export function fitSvg(figure: FitFigure): string {
   const width = 900;
   const p = parameters.length;
   const pairSize = figure.chain ? Math.min(200, Math.floor(760 / p)) : 0;
-  const pairTop = 620;
+  const pairTop = 650;
   const height = figure.chain ? pairTop + pairSize * p + 60 : 600;
   const parts: string[] = [
     `<?xml version="1.0" encoding="UTF-8"?>`,

@@ -298,7 +298,7 @@ export function registerFit(program: Command): void {
     .option("--starts <n>", "least-squares starts (the centre of the bounds, then seeded random points)", "4")
     .option("--seed <s>", "seed of the starts and the posterior", "1")
     .option("--tolerance <x>", "relative tolerance of each model run", "1e-7")
-    .option("--samples <n>", "points of the model cycle the data are interpolated from", "2000")
+    .option("--samples <n>", "points of the model cycle the data are interpolated from (raise it for sharp features such as sunrise)", "500")
     .option("--json", "print one JSON document (parameters in SI, χ², degrees of freedom, covariance)")
     .option("--residuals <file>", "write the data with the model and the residuals beside them (CSV)")
     .option("--svg <file>", "write the figure: data with error bars, best fit, residuals (and the posterior's pair plot)")
