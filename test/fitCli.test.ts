@@ -3,34 +3,17 @@
  * of bad input with exit status 2, and a posterior chain that resumes after a torn write to exactly
  * the chain of an uninterrupted run.
  */
-import { existsSync, mkdtempSync, readFileSync, writeFileSync } from "node:fs";
+import { mkdtempSync, readFileSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
-import { afterEach, beforeAll, describe, expect, it, vi } from "vitest";
+import { beforeAll, describe, expect, it } from "vitest";
+import { calorbit } from "./cliHarness.js";
 
-const PROGRAM = join(import.meta.dirname, "..", "dist", "src", "cli", "program.js");
-let main: (argv: string[]) => Promise<number>;
 let dir: string;
 
-beforeAll(async () => {
-  if (!existsSync(PROGRAM)) throw new Error(`${PROGRAM} is missing: run 'npm run build' (npm test does it)`);
-  main = ((await import(PROGRAM)) as { main: typeof main }).main;
+beforeAll(() => {
   dir = mkdtempSync(join(tmpdir(), "calorbit-fit-"));
 });
-
-afterEach(() => {
-  vi.restoreAllMocks();
-});
-
-async function calorbit(...args: string[]): Promise<{ status: number; stdout: string; stderr: string }> {
-  let stdout = "";
-  let stderr = "";
-  vi.spyOn(process.stdout, "write").mockImplementation((s: string | Uint8Array) => ((stdout += String(s)), true));
-  vi.spyOn(process.stderr, "write").mockImplementation((s: string | Uint8Array) => ((stderr += String(s)), true));
-  const status = await main(["node", "calorbit", ...args]);
-  vi.restoreAllMocks();
-  return { status, stdout, stderr };
-}
 
 // An invented slab on an eccentric orbit; its data are made by `run --csv` of the same scenario at
 // A = 0.25 and C = 1.5 MJ/m²/K, so the fit has a known answer (noise-free: χ² ≈ 0 here).
