@@ -8,7 +8,7 @@ import { readFileSync, writeFileSync } from "node:fs";
 import { fileURLToPath } from "node:url";
 import { parseScenarioText } from "../dist/src/scenario/text.js";
 import { resolveScenario } from "../dist/src/scenario/resolve.js";
-import { simulate } from "../dist/src/simulate.js";
+import { simulate } from "../dist/src/run/simulate.js";
 import { ForwardModel } from "../dist/src/fit/forward.js";
 import { parseFreeParameter } from "../dist/src/fit/parameters.js";
 import { mulberry32 } from "../dist/src/fit/leastSquares.js";

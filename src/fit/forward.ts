@@ -6,10 +6,10 @@
  */
 import { CalorbitError } from "../errors.js";
 import { resolveScenario } from "../scenario/resolve.js";
-import { simulate } from "../simulate.js";
-import { simulateColumn } from "../simulateColumn.js";
+import { simulate } from "../run/simulate.js";
+import { simulateColumn } from "../run/simulateColumn.js";
 import { setPath } from "../sweep/spec.js";
-import type { ThermalCase } from "../model.js";
+import type { ThermalCase } from "../model/thermalCase.js";
 import type { ObservedQuantity, Observations } from "./observations.js";
 import { offsetSeconds, scenarioValue, TIME_OFFSET_KEY, type FreeParameter } from "./parameters.js";
 

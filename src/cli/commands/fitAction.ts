@@ -10,7 +10,7 @@ import { Worker } from "node:worker_threads";
 import { CalorbitError } from "../../errors.js";
 import { resolveScenario } from "../../scenario/resolve.js";
 import { parseQuantity } from "../../scenario/units.js";
-import { buildThermalModel } from "../../thermalModel.js";
+import { buildThermalModel } from "../../model/build.js";
 import { fitBest } from "../../fit/bestFit.js";
 import { caseFor, ForwardModel, parseModelOutput, type ForwardSettings } from "../../fit/forward.js";
 import { dataFormatFor, parseObservations, type Observations } from "../../fit/observations.js";
