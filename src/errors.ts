@@ -36,9 +36,47 @@ export class CalorbitError extends Error {
   }
 }
 
-/** Renders a problem as the one line the CLI prints for it. */
+/** Longest echo of a given value in a message, in characters (a whole file pasted into a field stays one short line). */
+export const MAX_ECHO_CHARS = 80;
+
+/** Cuts `text` to at most `max` characters, marking the cut with "…", and puts control characters as escapes. */
+export function clip(text: string, max = MAX_ECHO_CHARS): string {
+  const visible = text.replace(/[\u0000-\u001f\u007f\ufeff]/g, (c) => (c === "\n" ? "\\n" : `\\u${c.charCodeAt(0).toString(16).padStart(4, "0")}`));
+  return visible.length > max ? `${visible.slice(0, max - 1)}…` : visible;
+}
+
+/** Renders a problem as the one line the CLI prints for it (the given value cut to about 80 characters). */
 export function formatProblem(p: FieldProblem): string {
-  return `${p.path}: given ${p.given}; allowed: ${p.allowed}`;
+  return `${p.path}: given ${clip(p.given)}; allowed: ${p.allowed}`;
+}
+
+/** A value as a short phrase for a message, whatever it is (undefined, a BigInt, a cyclic object, a function). */
+export function describeValue(value: unknown): string {
+  if (value === undefined) return "undefined";
+  if (typeof value === "bigint") return `${value}n (a BigInt)`;
+  if (typeof value === "function" || typeof value === "symbol") return `a ${typeof value}`;
+  try {
+    return clip(JSON.stringify(value) ?? String(value));
+  } catch {
+    return "an object that contains itself";
+  }
+}
+
+/**
+ * Throws INVALID_ARGUMENT unless `value` is a plain object that has every key in `keys` as an object
+ * (the public functions' first guard: a wrong argument is a typed error, never a TypeError deep inside).
+ */
+export function requireObject(name: string, value: unknown, keys: readonly string[], allowed: string): void {
+  const isObject = (v: unknown): v is Record<string, unknown> => typeof v === "object" && v !== null && !Array.isArray(v);
+  if (!isObject(value)) {
+    throw new CalorbitError("INVALID_ARGUMENT", `${name}: given ${describeValue(value)}; allowed: ${allowed}`, [{ path: name, given: describeValue(value), allowed }]);
+  }
+  for (const key of keys) {
+    if (!isObject(value[key])) {
+      const path = `${name}.${key}`;
+      throw new CalorbitError("INVALID_ARGUMENT", `${path}: given ${describeValue(value[key])}; allowed: ${allowed}`, [{ path, given: describeValue(value[key]), allowed }]);
+    }
+  }
 }
 
 /** Throws INVALID_ARGUMENT unless `value` is a finite number satisfying `ok`. */
@@ -49,8 +87,8 @@ export function requireNumber(
   allowed: string,
 ): void {
   if (typeof value !== "number" || !Number.isFinite(value) || !ok(value)) {
-    throw new CalorbitError("INVALID_ARGUMENT", `${name}: given ${String(value)}; allowed: ${allowed}`, [
-      { path: name, given: String(value), allowed },
+    throw new CalorbitError("INVALID_ARGUMENT", `${name}: given ${describeValue(value)}; allowed: ${allowed}`, [
+      { path: name, given: describeValue(value), allowed },
     ]);
   }
 }

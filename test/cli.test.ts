@@ -356,3 +356,85 @@ describe("calorbit as a process (what needs a real one: exit status, pipes, star
     expect(heavy).toEqual([]);
   });
 });
+
+describe("flags that do not apply, and outputs that would overwrite", () => {
+  it("refuses --series without --json, and --svg or --integrator for a conduction column, in one line each", async () => {
+    const series = await calorbit("run", "--series");
+    expect(series.status).toBe(2);
+    expect(series.stderr).toBe("calorbit: --series: given without --json; allowed: --series only with --json (it adds the series to the JSON document; for a table use --csv FILE)\n");
+    const column = join(SCENARIOS, "sarvek-regolith.yaml");
+    const svg = await calorbit("run", column, "--svg", join(dir, "never.svg"));
+    expect(svg.status).toBe(2);
+    expect(svg.stderr).toMatch(/^calorbit: --svg: given .*; allowed: no SVG chart for a conduction column yet/);
+    expect(existsSync(join(dir, "never.svg"))).toBe(false);
+    const integrator = await calorbit("run", column, "--integrator", "radau");
+    expect(integrator.status).toBe(2);
+    expect(integrator.stderr).toMatch(/^calorbit: --integrator: given "radau"; allowed: none for a conduction column/);
+  });
+
+  it("refuses an output that is the scenario itself, or two outputs that are one file, before writing anything", async () => {
+    const path = scenarioFile("clobber.yaml", validScenario);
+    for (const flag of ["--csv", "--svg"]) {
+      const r = await calorbit("run", path, flag, path);
+      expect(r.status).toBe(2);
+      expect(r.stderr).toBe(`calorbit: ${flag}: given ${JSON.stringify(path)}; allowed: a file other than the run input (writing there would overwrite the scenario)\n`);
+      expect(readFileSync(path, "utf8")).toBe(validScenario);
+    }
+    // The same file reached another way (./ and ..) is the same file.
+    const again = join(dir, "sub", "..", "clobber.yaml");
+    expect((await calorbit("compare", path, "--csv", again)).status).toBe(2);
+    expect((await calorbit("insolation", path, "--out", again)).status).toBe(2);
+    expect(readFileSync(path, "utf8")).toBe(validScenario);
+    const both = join(dir, "both-outputs.txt");
+    const r = await calorbit("run", path, "--csv", both, "--svg", both);
+    expect(r.status).toBe(2);
+    expect(r.stderr).toMatch(/^calorbit: --svg: given .*; allowed: a file other than the one given to --csv/);
+    expect(existsSync(both)).toBe(false);
+  });
+
+  it("compare exits 2 with a sentence when no regime can run (a column scenario), and its day/night refusal is a sentence", async () => {
+    const column = await calorbit("compare", join(SCENARIOS, "sarvek-regolith.yaml"), "--regimes", "global,daynight", "--csv", join(dir, "never-compare.csv"));
+    expect(column.status).toBe(2);
+    expect(column.stderr).toBe(
+      "calorbit: compare: no regime could run for this scenario, because this case has a conduction column (body.column), and only calorbit run and calorbit sweep solve a column; compare and the viewer's live controls take a slab (body.heatCapacity or body.layer)\n",
+    );
+    expect(existsSync(join(dir, "never-compare.csv"))).toBe(false);
+    const dn = await calorbit("compare", scenarioFile("nonight2.yaml", validScenario), "--regimes", "daynight");
+    expect(dn.status).toBe(2);
+    expect(dn.stdout).toContain("daynight  cannot run: the night side has no heat source: give body.recirculation or body.exchangeCoefficient a value above 0");
+  });
+
+  it("view on a file it cannot show (a run --csv series) says so in one short line", async () => {
+    const csv = join(dir, "series-for-view.csv");
+    expect((await calorbit("run", "--csv", csv, "--samples", "300")).status).toBe(0);
+    const r = await calorbit("view", csv);
+    expect(r.status).toBe(2);
+    expect(r.stderr).toBe(`calorbit: view: given ${JSON.stringify(csv)}; allowed: a scenario, a result written with run --json --series, or a sweep file\n`);
+  });
+});
+
+describe("messages stay short and in our words", () => {
+  it("cuts an echoed value at about 80 characters, whatever was pasted into the field", async () => {
+    const r = await calorbit("check", scenarioFile("long.yaml", validScenario.replace("eccentricity: 0.2", `eccentricity: "${"x".repeat(5000)}"`)));
+    expect(r.status).toBe(2);
+    const line = r.stderr.split("\n").find((l) => l.includes("orbit.eccentricity"))!;
+    const given = /given (.*); allowed/.exec(line)![1]!;
+    expect(given.length).toBeLessThanOrEqual(80);
+    expect(given.endsWith("…")).toBe(true);
+  });
+
+  it("accepts a UTF-8 byte-order mark before JSON and YAML", async () => {
+    const json = JSON.stringify({ name: "bom", star: { luminosity: "1 Lsun", mass: "1 Msun" }, orbit: { semiMajorAxis: "1 au", eccentricity: 0.1 }, body: { albedo: 0.3, emissivity: 0.9, heatCapacity: 1e8 } });
+    for (const [name, text] of [["bom.json", json], ["bom.yaml", validScenario]] as const) {
+      const r = await calorbit("check", scenarioFile(name, `\uFEFF${text}`));
+      expect({ name, status: r.status, stderr: r.stderr }).toEqual({ name, status: 0, stderr: "" });
+    }
+  });
+
+  it("never shows the validation library's own wording", async () => {
+    const r = await calorbit("check", scenarioFile("wrong-types.yaml", validScenario.replace("star: { luminosity: 1 Lsun, mass: 1 Msun }", "star: 5").replace("thresholds: [273.15 K, 300 K]", "thresholds: 7")));
+    expect(r.status).toBe(2);
+    expect(r.stderr).toMatch(/^calorbit: star: given 5; allowed: a mapping of keys$/m);
+    expect(r.stderr).not.toMatch(/Invalid input|expected \w+, received/);
+  });
+});

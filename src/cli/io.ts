@@ -1,13 +1,13 @@
 /** File input and output for the CLI: scenario reading and all-or-nothing writes. */
 import { existsSync, readFileSync, renameSync, rmSync, writeFileSync } from "node:fs";
 import { basename, dirname, extname, join } from "node:path";
-import { fileURLToPath } from "node:url";
 import { CalorbitError } from "../errors.js";
 import { resolveScenario, type ResolvedScenario } from "../scenario/resolve.js";
 import { parseScenarioText } from "../scenario/text.js";
 
-/** The bundled demo scenario, used when no file is given. */
-export const DEMO_SCENARIO = fileURLToPath(new URL("../../../scenarios/calyndra-ocean.yaml", import.meta.url));
+import { DEMO_SCENARIO } from "./paths.js";
+
+export { DEMO_SCENARIO };
 
 export function loadScenario(path: string | undefined): { resolved: ResolvedScenario; file: string } {
   const { document, file } = loadScenarioDocument(path);

@@ -54,7 +54,8 @@ export function compareRegimes(thermal: ThermalCase, regimes: readonly Regime[],
       }));
       return { regime, simulation, columns };
     } catch (err) {
-      if (err instanceof CalorbitError) return { regime, error: err.problems[0] ? `${err.problems[0].path}: ${err.problems[0].allowed}` : err.message };
+      // The message is the sentence that says why (the problem list is the one-line form for `run`).
+      if (err instanceof CalorbitError) return { regime, error: err.message };
       throw err;
     }
   });

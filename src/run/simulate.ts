@@ -6,8 +6,8 @@
 import { cycleSummary, type CycleSummary } from "../analysis/summarise.js";
 import { timeMean } from "../analysis/cycleStatistics.js";
 import { anomaliesUniformInTime, orbitColumns } from "../analysis/orbitSampling.js";
-import { CalorbitError, requireNumber } from "../errors.js";
-import type { ThermalCase } from "../model/thermalCase.js";
+import { CalorbitError, describeValue, requireNumber, requireObject } from "../errors.js";
+import { REGIMES, type ThermalCase } from "../model/thermalCase.js";
 import { eccentricAnomaly } from "../physics/kepler.js";
 import { chooseIntegrator, integrateCycle, INTEGRATORS, plainOdeTolerance, solvePeriodic, type IntegratorName } from "../solve/periodic.js";
 import { switchPoints } from "../solve/corners.js";
@@ -86,6 +86,11 @@ export interface Simulation {
 
 /** Runs one case to its periodic steady state (or through a transient) and summarises it. */
 export function simulate(thermal: ThermalCase, options: SimulateOptions = {}): Simulation {
+  requireObject("thermal", thermal, ["star", "orbit", "surface"], "a ThermalCase (resolveScenario(document).thermal) with star, orbit and surface");
+  if (!(REGIMES as readonly unknown[]).includes(thermal.regime)) {
+    throw new CalorbitError("INVALID_ARGUMENT", "unknown regime", [{ path: "thermal.regime", given: describeValue(thermal.regime), allowed: REGIMES.join(", ") }]);
+  }
+  requireObject("options", options, [], "an options object (or nothing)");
   const rtol = options.relativeTolerance ?? DEFAULT_RELATIVE_TOLERANCE;
   requireNumber("tolerance", rtol, (t) => t >= 1e-13 && t <= 1e-2, "1e-13 ≤ tolerance ≤ 1e-2");
   if (options.integrator !== undefined && !INTEGRATORS.includes(options.integrator)) {
@@ -95,7 +100,7 @@ export function simulate(thermal: ThermalCase, options: SimulateOptions = {}): S
   }
   const model = buildThermalModel(thermal);
   if (model.kind !== "slab") {
-    throw new CalorbitError("INVALID_ARGUMENT", "this case has a conduction column", [
+    throw new CalorbitError("INVALID_ARGUMENT", "this case has a conduction column (body.column), and only calorbit run and calorbit sweep solve a column; compare and the viewer's live controls take a slab (body.heatCapacity or body.layer)", [
       { path: "body.column", given: "a conduction column", allowed: "calorbit run or sweep (the column solver); compare and the viewer's live controls take lumped surfaces" },
     ]);
   }
@@ -237,7 +242,7 @@ function checkHeated(model: SlabModel, mode: SolverReport["mode"]): void {
   for (const cell of model.surface.cells) {
     if (cell.forcing.meanAbsorbedWPerM2 > 0) continue;
     if (model.surface.cells.length > 1) {
-      throw new CalorbitError("INVALID_ARGUMENT", `the ${cell.name} cell has no heat source`, [
+      throw new CalorbitError("INVALID_ARGUMENT", `the ${cell.name} side has no heat source: give body.recirculation or body.exchangeCoefficient a value above 0 to carry heat from the day side, or body.internalFlux one above 0`, [
         { path: "body", given: "no recirculation, exchange coefficient or internal flux", allowed: "body.recirculation > 0, body.exchangeCoefficient > 0 or body.internalFlux > 0" },
       ]);
     }

@@ -3,7 +3,7 @@
  * FieldProblem for every bad field. Pure: the CLI reads the file, this module only judges it.
  */
 import type { z } from "zod";
-import { CalorbitError, type FieldProblem } from "../errors.js";
+import { CalorbitError, clip, type FieldProblem } from "../errors.js";
 import type { ThermalCase } from "../model/thermalCase.js";
 import { DEFAULT_GRID } from "../physics/column.js";
 import { layerHeatCapacity, MATERIALS, type MaterialName } from "../physics/materials.js";
@@ -28,9 +28,15 @@ export interface ResolvedScenario {
 function render(value: unknown): string {
   if (value === undefined) return "missing";
   if (typeof value === "number") return Number.isNaN(value) ? "NaN" : String(value);
-  if (typeof value === "string") return JSON.stringify(value);
-  const json = JSON.stringify(value);
-  return json === undefined ? String(value) : json.length > 60 ? json.slice(0, 57) + "..." : json;
+  if (typeof value === "bigint") return `${value}n (a BigInt)`;
+  if (typeof value === "string") return clip(JSON.stringify(value));
+  let json: string | undefined;
+  try {
+    json = JSON.stringify(value, (_key, v: unknown) => (typeof v === "bigint" ? `${v}n` : v));
+  } catch {
+    return "an object that contains itself";
+  }
+  return json === undefined ? String(value) : clip(json, 60);
 }
 
 function valueAt(root: unknown, path: readonly PropertyKey[]): unknown {
@@ -44,6 +50,26 @@ function valueAt(root: unknown, path: readonly PropertyKey[]): unknown {
 
 function pathText(path: readonly PropertyKey[]): string {
   return path.length === 0 ? "(scenario)" : path.map((p) => (typeof p === "number" ? `[${p}]` : String(p))).join(".").replace(/\.\[/g, "[");
+}
+
+const TYPE_WORDS: Record<string, string> = {
+  object: "a mapping of keys",
+  number: "a number",
+  string: "a text",
+  array: "a list",
+  boolean: "true or false",
+};
+
+/**
+ * What is allowed, in our words: the schema's own message where it has one, never the validation
+ * library's default wording ("Invalid input: expected object, received number").
+ */
+function allowedWords(issue: z.core.$ZodIssue): string {
+  const isLibraryWording = /^(Invalid|Too (small|big)|Expected|Required|Unrecognized)/.test(issue.message);
+  if (!isLibraryWording) return issue.message;
+  if (issue.code === "invalid_type") return TYPE_WORDS[issue.expected] ?? `a value of type ${issue.expected}`;
+  if (issue.code === "invalid_value") return `one of ${issue.values.map((v) => JSON.stringify(v)).join(", ")}`;
+  return "a value of the form `calorbit schema` describes here";
 }
 
 /** One FieldProblem per zod issue, with the given value looked up in the raw document. */
@@ -61,7 +87,7 @@ export function problemsFromZod(error: z.ZodError, raw: unknown): FieldProblem[]
       continue;
     }
     const given = valueAt(raw, issue.path);
-    problems.push({ path: pathText(issue.path), given: render(given), allowed: issue.message });
+    problems.push({ path: pathText(issue.path), given: render(given), allowed: allowedWords(issue) });
   }
   return problems;
 }

@@ -8,6 +8,8 @@ import { CalorbitError } from "../errors.js";
 
 /** Parses scenario text; `format` follows the file extension ("json" or "yaml"). */
 export function parseScenarioText(text: string, format: "json" | "yaml", sourceName: string): unknown {
+  // A UTF-8 byte-order mark (some Windows editors write one) is not part of the document.
+  if (text.startsWith("\uFEFF")) text = text.slice(1);
   try {
     return format === "json" ? JSON.parse(text) : parseYaml(text, { prettyErrors: true });
   } catch (err) {

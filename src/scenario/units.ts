@@ -13,6 +13,7 @@ import {
   SOLAR_RADIUS_M,
   ZERO_CELSIUS_K,
 } from "../constants.js";
+import { CalorbitError, describeValue } from "../errors.js";
 
 export type QuantityKind =
   | "length"
@@ -102,6 +103,10 @@ const NUMBER_AND_UNIT = /^\s*([+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?)\s*(.*?)
 
 /** Converts a number (already SI) or a "<number> <unit>" string to SI. */
 export function parseQuantity(kind: QuantityKind, raw: unknown): ParsedQuantity | QuantityError {
+  if (typeof kind !== "string" || !Object.hasOwn(UNIT_TABLES, kind)) {
+    const allowedKinds = Object.keys(UNIT_TABLES).join(", ");
+    throw new CalorbitError("INVALID_ARGUMENT", `kind: given ${describeValue(kind)}; allowed: ${allowedKinds}`, [{ path: "kind", given: describeValue(kind), allowed: allowedKinds }]);
+  }
   const table = UNIT_TABLES[kind];
   const allowed = `a number in ${table.si} or a string "<number> <unit>" with unit one of ${allowedUnits(kind)}`;
   if (typeof raw === "number") {

@@ -2,7 +2,9 @@
 import type { Command } from "commander";
 import { DEFAULT_RELATIVE_TOLERANCE, DEFAULT_SAMPLES } from "../../defaults.js";
 import { REGIMES, type Regime } from "../../model/thermalCase.js";
+import { CalorbitError } from "../../errors.js";
 import { integerFlag, toleranceFlag, usage } from "../flags.js";
+import { refuseClobber } from "../outputPaths.js";
 import { out } from "../output.js";
 
 interface CompareFlags {
@@ -20,6 +22,7 @@ async function compareCommand(scenarioPath: string | undefined, flags: CompareFl
     throw usage("--regimes", JSON.stringify(flags.regimes), `a comma-separated list of ${REGIMES.join(", ")}`);
   }
   const samples = integerFlag("--samples", flags.samples, 2, 10_000_000);
+  refuseClobber("compare", [scenarioPath], [["--csv", flags.csv]]);
   const relativeTolerance = toleranceFlag(flags.tolerance);
   const [{ loadScenario, writeFileAtomic }, { compareRegimes }, { compareCsv, compareDocument, compareTable }] = await Promise.all([
     import("../io.js"),
@@ -28,9 +31,20 @@ async function compareCommand(scenarioPath: string | undefined, flags: CompareFl
   ]);
   const { resolved } = loadScenario(scenarioPath);
   const comparison = compareRegimes(resolved.thermal, regimes as Regime[], { samples, relativeTolerance });
-  if (flags.csv !== undefined) writeFileAtomic(flags.csv, compareCsv(resolved, comparison));
+  const failed = comparison.rows.filter((row) => row.error !== undefined);
+  const noneRan = failed.length === comparison.rows.length;
+  // With no regime to show, no CSV is written; the report still says, per regime, why.
+  if (flags.csv !== undefined && !noneRan) writeFileAtomic(flags.csv, compareCsv(resolved, comparison));
   if (flags.json) out(JSON.stringify(compareDocument(resolved, comparison), null, 2) + "\n");
   else out(compareTable(resolved, comparison));
+  if (noneRan) throw new CalorbitError("USAGE", noRegimeRan(failed.map((row) => ({ regime: row.regime, error: row.error! }))));
+}
+
+/** One sentence for a comparison in which no regime could run: each distinct reason once. */
+export function noRegimeRan(failures: readonly { regime: string; error: string }[]): string {
+  const reasons = [...new Set(failures.map((f) => f.error))];
+  if (reasons.length === 1) return `compare: no regime could run for this scenario, because ${reasons[0]}`;
+  return `compare: no regime could run for this scenario (${failures.map((f) => `${f.regime}: ${f.error}`).join("; ")})`;
 }
 
 export function registerCompare(program: Command): void {

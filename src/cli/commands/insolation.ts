@@ -1,6 +1,7 @@
 /** `calorbit insolation`: the latitude × orbital-phase daily-mean insolation table as CSV. */
 import type { Command } from "commander";
 import { integerFlag } from "../flags.js";
+import { refuseClobber } from "../outputPaths.js";
 import { out } from "../output.js";
 
 interface InsolationFlags {
@@ -12,6 +13,7 @@ interface InsolationFlags {
 async function insolationCommand(scenarioPath: string | undefined, flags: InsolationFlags): Promise<void> {
   const latitudes = integerFlag("--latitudes", flags.latitudes, 2, 1801);
   const phases = integerFlag("--phases", flags.phases, 1, 100_000);
+  refuseClobber("insolation", [scenarioPath], [["--out", flags.out]]);
   const [{ insolationMap }, { insolationCsv }, { loadScenario, writeFileAtomic }] = await Promise.all([
     import("../../analysis/insolationMap.js"),
     import("../../report/compareReport.js"),

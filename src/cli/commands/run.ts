@@ -4,6 +4,7 @@ import { DEFAULT_RELATIVE_TOLERANCE, DEFAULT_SAMPLES, INTEGRATORS } from "../../
 import type { SimulateOptions } from "../../run/simulate.js";
 import type { ResolvedScenario } from "../../scenario/resolve.js";
 import { integerFlag, integratorFlag, quantityFlag, toleranceFlag, usage } from "../flags.js";
+import { refuseClobber } from "../outputPaths.js";
 import { out } from "../output.js";
 
 interface RunFlags {
@@ -25,6 +26,8 @@ async function runCommand(scenarioPath: string | undefined, flags: RunFlags): Pr
     relativeTolerance: toleranceFlag(flags.tolerance),
     samples: integerFlag("--samples", flags.samples, 2, 10_000_000),
   };
+  if (flags.series && !flags.json) throw usage("--series", "without --json", "--series only with --json (it adds the series to the JSON document; for a table use --csv FILE)");
+  refuseClobber("run", [scenarioPath], [["--csv", flags.csv], ["--svg", flags.svg]]);
   const integrator = integratorFlag(flags.integrator);
   if (integrator) options.integrator = integrator;
   if (flags.from !== undefined || flags.orbits !== undefined) {
@@ -65,6 +68,8 @@ async function runCommand(scenarioPath: string | undefined, flags: RunFlags): Pr
   }
   if (resolved.thermal.column) {
     if (options.transient) throw usage("--from", JSON.stringify(flags.from ?? ""), "no transient mode for a conduction column yet (it runs to its periodic state)");
+    if (flags.svg !== undefined) throw usage("--svg", JSON.stringify(flags.svg), "no SVG chart for a conduction column yet (write the series with --csv)");
+    if (integrator !== undefined) throw usage("--integrator", JSON.stringify(integrator), "none for a conduction column (its own Crank–Nicolson stepper solves it)");
     // The column's periodicity and energy tolerance: 1e-6 unless --tolerance says otherwise.
     const columnTolerance = columnToleranceFor(options.relativeTolerance!, DEFAULT_RELATIVE_TOLERANCE);
     const col = simulateColumn(resolved.thermal, resolved.thermal.column, { relativeTolerance: columnTolerance, samples: options.samples ?? 1000 });

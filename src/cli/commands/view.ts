@@ -13,7 +13,7 @@ interface ViewFlags {
 async function viewCommand(path: string | undefined, flags: ViewFlags): Promise<void> {
   const port = integerFlag("--port", flags.port, 0, 65535);
   // The engine, the writers and the HTTP server load only when the viewer starts.
-  const [{ columnDocument }, { resultDocument }, { simulateColumn }, { simulate }, { parseSweepText }, { loadScenario }, { startViewServer }] = await Promise.all([
+  const [{ columnDocument }, { resultDocument }, { simulateColumn }, { simulate }, { parseSweepText }, { loadScenarioDocument }, { startViewServer }, { resolveScenario }] = await Promise.all([
     import("../../report/columnReport.js"),
     import("../../report/document.js"),
     import("../../run/simulateColumn.js"),
@@ -21,6 +21,7 @@ async function viewCommand(path: string | undefined, flags: ViewFlags): Promise<
     import("../../view/sweepData.js"),
     import("../io.js"),
     import("../viewServer.js"),
+    import("../../scenario/resolve.js"),
   ]);
   let resultJson: string;
   if (path !== undefined && isSweepFile(path)) {
@@ -28,7 +29,12 @@ async function viewCommand(path: string | undefined, flags: ViewFlags): Promise<
   } else if (path !== undefined && path.toLowerCase().endsWith(".json") && looksLikeResult(path)) {
     resultJson = readFileSync(path, "utf8");
   } else {
-    const { resolved, file } = loadScenario(path);
+    const { document, file } = loadScenarioDocument(path);
+    if (document === null || typeof document !== "object" || Array.isArray(document)) {
+      // A CSV series, a text report…: say what view takes instead of echoing the file.
+      throw usage("view", JSON.stringify(path ?? ""), "a scenario, a result written with run --json --series, or a sweep file");
+    }
+    const resolved = resolveScenario(document);
     if (resolved.thermal.climate) {
       const [{ zonalViewDocument }, { simulateZonal, zonalCaseOf }] = await Promise.all([import("../../report/zonalReport.js"), import("../../run/zonal.js")]);
       const zonal = zonalCaseOf(resolved.thermal);
