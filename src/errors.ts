@@ -45,9 +45,12 @@ export function clip(text: string, max = MAX_ECHO_CHARS): string {
   return visible.length > max ? `${visible.slice(0, max - 1)}…` : visible;
 }
 
-/** Renders a problem as the one line the CLI prints for it (the given value cut to about 80 characters). */
+/**
+ * Renders a problem as the one line the CLI prints for it. Whoever builds a problem from a user's
+ * value passes it through `clip` (or `describeValue`), so that no echo runs past about 80 characters.
+ */
 export function formatProblem(p: FieldProblem): string {
-  return `${p.path}: given ${clip(p.given)}; allowed: ${p.allowed}`;
+  return `${p.path}: given ${p.given}; allowed: ${p.allowed}`;
 }
 
 /** A value as a short phrase for a message, whatever it is (undefined, a BigInt, a cyclic object, a function). */

@@ -335,7 +335,7 @@ describe("calorbit as a process (what needs a real one: exit status, pipes, star
   }
 
   it("ends quietly with status 0 when the reader closes the pipe (insolation | head, run --json --series | head, sweep merge --help | head)", async () => {
-    for (const args of [["insolation"], ["run", "--json", "--series"], ["sweep", "merge", "--help"]]) {
+    for (const args of [["insolation", join(SCENARIOS, "ilvane-tilted.yaml")], ["run", "--json", "--series"], ["sweep", "merge", "--help"]]) {
       const r = await withClosedStdout(...args);
       expect({ args, ...r }).toEqual({ args, status: 0, stderr: "" });
     }
@@ -436,5 +436,96 @@ describe("messages stay short and in our words", () => {
     expect(r.status).toBe(2);
     expect(r.stderr).toMatch(/^calorbit: star: given 5; allowed: a mapping of keys$/m);
     expect(r.stderr).not.toMatch(/Invalid input|expected \w+, received/);
+  });
+});
+
+describe("physical sanity: impossible geometry refused, doubtful results warned on stderr and in JSON", () => {
+  it("refuses a periastron at or inside the star's radius, naming the orbit", async () => {
+    // The Sun's radius is 6.957e8 m (IAU 2015 B3); a = 0.004 au with e = 0.2 puts periastron at 4.79e8 m.
+    const text = validScenario.replace("star: { luminosity: 1 Lsun, mass: 1 Msun }", "star: { radius: 1 Rsun, temperature: 5772 K, mass: 1 Msun }").replace("semiMajorAxis: 1 au", "semiMajorAxis: 0.004 au");
+    const r = await calorbit("run", scenarioFile("inside-star.yaml", text));
+    expect(r.status).toBe(2);
+    expect(r.stderr).toBe('calorbit: orbit.semiMajorAxis: given "0.004 au"; allowed: an orbit whose periastron a(1 − e) clears the star\'s radius 6.957e+8 m (here a(1 − e) = 4.787e+8 m)\n');
+  });
+
+  it("warns when the temperature exceeds the star's own, on stderr and in the JSON warnings, never in stdout's data", async () => {
+    // A grey surface (ε = 0.05, absorbing all) at 2.15 solar radii from a 5772 K star: the substellar
+    // equilibrium T★ (R/r)^½ ((1 − A)/ε)^¼ ≈ 8300 K is above T★, which Kirchhoff's law forbids for a real surface.
+    const text = validScenario
+      .replace("star: { luminosity: 1 Lsun, mass: 1 Msun }", "star: { radius: 1 Rsun, temperature: 5772 K, mass: 1 Msun }")
+      .replace("semiMajorAxis: 1 au, eccentricity: 0.2", "semiMajorAxis: 0.01 au, eccentricity: 0")
+      .replace("albedo: 0.3, emissivity: 0.9", "albedo: 0, emissivity: 0.05")
+      .replace(/thresholds.*\n/, "regime: substellar\n");
+    const path = scenarioFile("hotter-than-star.yaml", text);
+    const json = await calorbit("run", path, "--json");
+    expect(json.status).toBe(0);
+    const doc = JSON.parse(json.stdout);
+    expect(doc.summary.temperature.maxK).toBeGreaterThan(5772);
+    expect(doc.warnings).toHaveLength(1);
+    expect(doc.warnings[0]).toMatch(/^the maximum temperature \d+\.\d+ K is above the star's own 5772 K/);
+    expect(json.stderr).toBe(`calorbit: warning: ${doc.warnings[0]}\n`);
+    const text2 = await calorbit("run", path);
+    expect(text2.stdout).not.toContain("warning");
+    expect(text2.stderr).toContain("above the star's own 5772 K");
+    // A sound case has an empty list.
+    expect(JSON.parse((await calorbit("run", "--json", "--samples", "20")).stdout).warnings).toEqual([]);
+  });
+
+  it("warns that a bare-number luminosity is watts, in a scenario and in equilibrium (and suggests Lsun)", async () => {
+    const r = await calorbit("run", scenarioFile("one-watt.yaml", validScenario.replace("luminosity: 1 Lsun", "luminosity: 1")), "--json", "--samples", "20");
+    expect(r.status).toBe(0);
+    expect(JSON.parse(r.stdout).warnings).toEqual(['star.luminosity: 1 was read as 1 W, far below any star\'s (the faintest are about 1e-5 Lsun); for solar units write "1 Lsun"']);
+    const eq = await calorbit("equilibrium", "--luminosity", "1", "--distance", "1au");
+    expect(eq.status).toBe(0);
+    expect(eq.stderr).toBe('calorbit: warning: --luminosity: 1 was read as 1 W, far below any star\'s (the faintest are about 1e-5 Lsun); for solar units write "1 Lsun"\n');
+    expect((await calorbit("equilibrium", "--luminosity", "3.828e26", "--distance", "1au")).stderr).toBe("");
+  });
+
+  it("warns that daily means do not describe a slow or resonant rotator (3:2), and not for a fast one", async () => {
+    const resonant = await calorbit("insolation", join(SCENARIOS, "miradel-resonant.yaml"));
+    expect(resonant.status).toBe(0);
+    expect(resonant.stderr).toMatch(/^calorbit: warning: these daily means assume many solar days per orbit, but its solar day is 2\.00 orbits long/);
+    expect((await calorbit("insolation", join(SCENARIOS, "ilvane-tilted.yaml"))).stderr).toBe("");
+  });
+});
+
+describe("users' habits", () => {
+  it("equilibrium --json gives 278.33 K at 1 au from 1 L☉ (IAU 2015 B3 nominal luminosity, derived)", async () => {
+    const r = await calorbit("equilibrium", "--luminosity", "1Lsun", "--distance", "1au", "--json");
+    expect(r.status).toBe(0);
+    const doc = JSON.parse(r.stdout);
+    expect(doc.equilibriumK).toBeCloseTo(278.33, 2);
+    expect(doc.stellarFluxWPerM2).toBeCloseTo(1361.2, 1); // IAU 2015 B3 nominal solar constant 1361 W m⁻²
+    expect(doc.geometryFactor).toBe(0.25);
+    expect(doc.warnings).toEqual([]);
+  });
+
+  it("--celsius adds the temperature rows in °C (0 °C = 273.15 K, SI brochure), and is refused with --json", async () => {
+    const r = await calorbit("run", scenarioFile("celsius.yaml", validScenario), "--celsius");
+    expect(r.status).toBe(0);
+    const kelvin = /^ {2}temperature\s+([\d.]+) K\s+([\d.]+) K\s+([\d.]+) K\s+([\d.]+) K$/m.exec(r.stdout)!;
+    const celsius = /^ {2}temperature\s+(-?[\d.]+) °C\s+(-?[\d.]+) °C\s+(-?[\d.]+) °C\s+([\d.]+) °C$/m.exec(r.stdout)!;
+    for (const i of [1, 2, 3]) expect(Number(celsius[i])).toBeCloseTo(Number(kelvin[i]) - 273.15, 2);
+    expect(celsius[4]).toBe(kelvin[4]); // a swing is a difference: the same in K and °C
+    expect(r.stdout).toMatch(/time in 273\.15–300\.00 K \(0\.00–26\.85 °C\)/);
+    const both = await calorbit("run", "--celsius", "--json");
+    expect(both.status).toBe(2);
+    expect(both.stderr).toMatch(/^calorbit: --celsius: given with --json; allowed: --celsius only with the text report/);
+  });
+
+  it("reads bare angles as degrees in scenario files and sweep axes (--vary surface.latitude=0,30,60)", async () => {
+    const band = validScenario.replace(/thresholds.*\n/, "regime: band\nspin: { obliquity: 23.44 }\nsurface: { latitude: 30 }\n");
+    const bare = JSON.parse((await calorbit("run", scenarioFile("band-bare.yaml", band), "--json", "--samples", "20")).stdout);
+    const spelled = JSON.parse((await calorbit("run", scenarioFile("band-deg.yaml", band.replace("latitude: 30", "latitude: 30 deg").replace("obliquity: 23.44", "obliquity: 23.44 deg")), "--json", "--samples", "20")).stdout);
+    expect(bare.scenario.surface.latitudeRad).toBeCloseTo(Math.PI / 6, 12);
+    expect(bare.summary.temperature.meanK).toBe(spelled.summary.temperature.meanK);
+    const out = join(dir, "latitudes.csv");
+    const r = await calorbit("sweep", scenarioFile("band-sweep.yaml", band), "--vary", "surface.latitude=0,30,60", "--workers", "1", "--quiet", "--out", out);
+    expect({ status: r.status, stderr: r.stderr }).toEqual({ status: 0, stderr: "" });
+    const rows = readFileSync(out, "utf8").trim().split("\n").filter((l) => !l.startsWith("#"));
+    expect(rows).toHaveLength(4);
+    expect(rows.slice(1).map((l) => l.split(",")[2])).toEqual(["ok", "ok", "ok"]);
+    // Radians still work when they say so.
+    expect((await calorbit("check", scenarioFile("band-rad.yaml", band.replace("latitude: 30", "latitude: 0.5 rad")))).status).toBe(0);
   });
 });

@@ -2,13 +2,14 @@
  * Flag parsing shared by the commands: each helper turns one raw flag string into an SI value or
  * throws a USAGE CalorbitError with one line (flag, given value, what is allowed).
  */
-import { CalorbitError } from "../errors.js";
+import { CalorbitError, clip } from "../errors.js";
 import { parseQuantity, type QuantityKind } from "../scenario/units.js";
 import { INTEGRATORS, type IntegratorName } from "../defaults.js";
 
 /** A USAGE error for one flag: `path: given …; allowed: …`. */
 export function usage(path: string, given: string, allowed: string): CalorbitError {
-  return new CalorbitError("USAGE", `${path}: given ${given}; allowed: ${allowed}`, [{ path, given, allowed }]);
+  const echo = clip(given);
+  return new CalorbitError("USAGE", `${path}: given ${echo}; allowed: ${allowed}`, [{ path, given: echo, allowed }]);
 }
 
 export function integerFlag(name: string, raw: string, min: number, max: number): number {

@@ -5,6 +5,7 @@ import type { ResolvedScenario } from "../scenario/resolve.js";
 import type { TemperatureStats } from "../analysis/summarise.js";
 import type { Simulation } from "../run/simulate.js";
 import { VERSION } from "../version.js";
+import { ZERO_CELSIUS_K } from "../constants.js";
 import { au, days, degrees, duration, fixed, sig, solarLuminosities, solarMasses } from "./format.js";
 
 export const CAUTION = [
@@ -79,7 +80,12 @@ export function describeScenario(resolved: ResolvedScenario): string[] {
   return lines;
 }
 
-export function summaryText(resolved: ResolvedScenario, sim: Simulation): string {
+/** Text report options: `celsius` adds the temperature rows and the window again in °C. */
+export interface SummaryTextOptions {
+  celsius?: boolean;
+}
+
+export function summaryText(resolved: ResolvedScenario, sim: Simulation, options: SummaryTextOptions = {}): string {
   const { summary: s, solver } = sim;
   const P = s.periodSeconds;
   const lines: string[] = [`calorbit ${VERSION} — ${resolved.thermal.name}`, ...describeScenario(resolved), ""];
@@ -92,11 +98,15 @@ export function summaryText(resolved: ResolvedScenario, sim: Simulation): string
   const row = (label: string, t: TemperatureStats) =>
     `  ${label.padEnd(13)}${fixed(t.minK, 2).padStart(10)} K${fixed(t.maxK, 2).padStart(10)} K${fixed(t.meanK, 2).padStart(10)} K${fixed(t.swingK, 2).padStart(9)} K`;
   lines.push(`  ${"".padEnd(13)}${"min".padStart(12)}${"max".padStart(12)}${"mean".padStart(12)}${"swing".padStart(11)}`);
-  if (s.day && s.night) {
-    lines.push(row("day", s.day.temperature), row("day T_eq", s.day.equilibrium), row("night", s.night.temperature), row("night T_eq", s.night.equilibrium));
-  } else {
-    lines.push(row("temperature", s.temperature), row("equilibrium", s.equilibrium));
-  }
+  // A swing is a difference, the same number in K and °C; min, max and mean shift by 273.15.
+  const rowC = (label: string, t: TemperatureStats) =>
+    `  ${label.padEnd(13)}${fixed(t.minK - ZERO_CELSIUS_K, 2).padStart(9)} °C${fixed(t.maxK - ZERO_CELSIUS_K, 2).padStart(9)} °C${fixed(t.meanK - ZERO_CELSIUS_K, 2).padStart(9)} °C${fixed(t.swingK, 2).padStart(8)} °C`;
+  const rows: [string, TemperatureStats][] =
+    s.day && s.night
+      ? [["day", s.day.temperature], ["day T_eq", s.day.equilibrium], ["night", s.night.temperature], ["night T_eq", s.night.equilibrium]]
+      : [["temperature", s.temperature], ["equilibrium", s.equilibrium]];
+  for (const [label, t] of rows) lines.push(row(label, t));
+  if (options.celsius) for (const [label, t] of rows) lines.push(rowC(label, t));
   if (s.solarDaySeconds !== undefined) {
     lines.push(`  solar day   ${s.solarDaySeconds === null ? "none (synchronous spin)" : `${duration(s.solarDaySeconds)} (${sig(s.solarDaySeconds / P, 4)} orbits)`}`);
   }
@@ -111,7 +121,7 @@ export function summaryText(resolved: ResolvedScenario, sim: Simulation): string
   if (s.timeInRange) {
     const w = s.timeInRange;
     lines.push(
-      `  time in ${fixed(w.lowK, 2)}–${fixed(w.highK, 2)} K   ${fixed(100 * w.fraction, 2)} % of the orbit (${duration(w.seconds)})`,
+      `  time in ${fixed(w.lowK, 2)}–${fixed(w.highK, 2)} K${options.celsius ? ` (${fixed(w.lowK - ZERO_CELSIUS_K, 2)}–${fixed(w.highK - ZERO_CELSIUS_K, 2)} °C)` : ""}   ${fixed(100 * w.fraction, 2)} % of the orbit (${duration(w.seconds)})`,
     );
   }
   lines.push(

@@ -11,6 +11,7 @@ import { keplerPeriodSeconds } from "../physics/orbit.js";
 import { luminosityFromRadiusTemperature, massParameter } from "../physics/star.js";
 import { resolveClimate } from "./climate.js";
 import { parseRatio, scenarioSchema, type ParsedScenario } from "./schema.js";
+import { bareLuminosityWarning } from "../analysis/sanity.js";
 
 /** How the heat capacity was obtained, kept for the report. */
 export type HeatCapacityOrigin =
@@ -23,6 +24,8 @@ export interface ResolvedScenario {
   heatCapacityOrigin: HeatCapacityOrigin;
   periodOrigin: "given" | "kepler";
   description?: string;
+  /** Things that validate but look like a slip (a bare-number luminosity far below any star's), as sentences. */
+  warnings?: string[];
 }
 
 function render(value: unknown): string {
@@ -185,6 +188,11 @@ function fromParsed(s: ParsedScenario, raw: unknown): ResolvedScenario {
       problem("observer.passband", "a table of at least two rows: wavelengths increasing, as many responses (each ≥ 0)");
     }
   }
+  // A periastron at or inside the photosphere is not an orbit (checked when the radius is known).
+  if (s.star.radius !== undefined && s.orbit.semiMajorAxis * (1 - s.orbit.eccentricity) <= s.star.radius) {
+    const periastronM = s.orbit.semiMajorAxis * (1 - s.orbit.eccentricity);
+    problem("orbit.semiMajorAxis", `an orbit whose periastron a(1 − e) clears the star's radius ${s.star.radius.toPrecision(4)} m (here a(1 − e) = ${periastronM.toPrecision(4)} m)`);
+  }
   if (s.thresholds && !(s.thresholds[0] < s.thresholds[1])) {
     problem("thresholds", "a [low, high] pair with low < high");
   }
@@ -238,9 +246,13 @@ function fromParsed(s: ParsedScenario, raw: unknown): ResolvedScenario {
     obliquityRad: s.spin?.obliquity ?? 0,
     equinoxTrueAnomalyRad: s.spin?.axisLongitude ?? 0,
   };
+  const rawLuminosity = valueAt(raw, ["star", "luminosity"]);
+  const bareLuminosity = typeof rawLuminosity === "number" || (typeof rawLuminosity === "string" && /^\s*[+-]?[\d.]+([eE][+-]?\d+)?\s*$/.test(rawLuminosity));
+  const luminosityWarning = bareLuminosity ? bareLuminosityWarning("star.luminosity", luminosityW) : undefined;
   return {
     thermal,
     heatCapacityOrigin,
+    ...(luminosityWarning !== undefined ? { warnings: [luminosityWarning] } : {}),
     periodOrigin: s.orbit.period !== undefined ? "given" : "kepler",
     ...(s.description !== undefined ? { description: s.description } : {}),
   };

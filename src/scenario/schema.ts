@@ -10,12 +10,12 @@ import { MATERIAL_NAMES } from "../physics/materials.js";
 import { ALBEDO_LAWS } from "../physics/climateAlbedo.js";
 import { OUTGOING_LAWS } from "../physics/climateOutgoing.js";
 import { CLIMATE_STARTS } from "../physics/climateSettings.js";
-import { parseQuantity, UNIT_TABLES, type QuantityKind } from "./units.js";
+import { bareUnit, parseQuantity, UNIT_TABLES, type QuantityKind } from "./units.js";
 
 /** A dimensional value: SI number or "<number> <unit>", converted to SI, with an optional range check. */
 function quantity(kind: QuantityKind, description: string, check?: { ok: (si: number) => boolean; allowed: string }) {
   return z
-    .union([z.number(), z.string()], { error: `a number in ${UNIT_TABLES[kind].si} or a string "<number> <unit>"` })
+    .union([z.number(), z.string()], { error: `a number in ${bareUnit(kind)} or a string "<number> <unit>"` })
     .transform((raw, ctx) => {
       const parsed = parseQuantity(kind, raw);
       if (!parsed.ok) {
@@ -28,7 +28,11 @@ function quantity(kind: QuantityKind, description: string, check?: { ok: (si: nu
       }
       return parsed.valueSI;
     })
-    .describe(`${description} (SI unit ${UNIT_TABLES[kind].si}; or a string such as "1.2 ${Object.keys(UNIT_TABLES[kind].units).at(-1)}")`);
+    .describe(
+      UNIT_TABLES[kind].bare === undefined
+        ? `${description} (SI unit ${UNIT_TABLES[kind].si}; or a string such as "1.2 ${Object.keys(UNIT_TABLES[kind].units).at(-1)}")`
+        : `${description} (a bare number is in ${bareUnit(kind)}; or a string such as "1.2 ${UNIT_TABLES[kind].si}")`,
+    );
 }
 
 const positive = (unit: string) => ({ ok: (v: number) => v > 0, allowed: `a value > 0 ${unit}` });

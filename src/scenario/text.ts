@@ -4,7 +4,7 @@
  * parsed, never load the YAML parser.
  */
 import { parse as parseYaml, YAMLParseError } from "yaml";
-import { CalorbitError } from "../errors.js";
+import { CalorbitError, clip } from "../errors.js";
 
 /** Parses scenario text; `format` follows the file extension ("json" or "yaml"). */
 export function parseScenarioText(text: string, format: "json" | "yaml", sourceName: string): unknown {
@@ -15,6 +15,6 @@ export function parseScenarioText(text: string, format: "json" | "yaml", sourceN
   } catch (err) {
     const where = err instanceof YAMLParseError && err.linePos ? ` at line ${err.linePos[0].line}, column ${err.linePos[0].col}` : "";
     const reason = err instanceof Error ? (err.message.split("\n")[0] ?? "").replace(/ at line \d+, column \d+:?$/, "") : String(err);
-    throw new CalorbitError("SCENARIO_UNREADABLE", `${sourceName}: not valid ${format.toUpperCase()}${where}: ${reason}`);
+    throw new CalorbitError("SCENARIO_UNREADABLE", `${sourceName}: not valid ${format.toUpperCase()}${where}: ${clip(reason)}`);
   }
 }

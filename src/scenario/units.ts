@@ -30,6 +30,8 @@ export type QuantityKind =
 interface UnitTable {
   /** SI unit, as written in messages and CSV headers. */
   si: string;
+  /** The unit of a bare number when it is not the SI one (angles: a person types degrees). */
+  bare?: string;
   /** unit spelling → (value in unit) ↦ SI value. */
   units: Record<string, (v: number) => number>;
 }
@@ -59,7 +61,8 @@ export const UNIT_TABLES: Readonly<Record<QuantityKind, UnitTable>> = {
   luminosity: { si: "W", units: { W: scale(1), Lsun: scale(SOLAR_LUMINOSITY_W) } },
   mass: { si: "kg", units: { kg: scale(1), Msun: scale(SOLAR_MASS_KG) } },
   temperature: { si: "K", units: { K: scale(1), degC: (v) => v + ZERO_CELSIUS_K } },
-  angle: { si: "rad", units: { rad: scale(1), deg: scale(Math.PI / 180) } },
+  // People type angles in degrees: a bare number is degrees; radians must say "rad".
+  angle: { si: "rad", bare: "deg", units: { rad: scale(1), deg: scale(Math.PI / 180) } },
   arealHeatCapacity: {
     si: "J/m2/K",
     units: { "J/m2/K": scale(1), "kJ/m2/K": scale(1e3), "MJ/m2/K": scale(1e6) },
@@ -95,6 +98,11 @@ export interface QuantityError {
   allowed: string;
 }
 
+/** The unit a bare number is read in for this kind: SI, except angles (degrees). */
+export function bareUnit(kind: QuantityKind): string {
+  return UNIT_TABLES[kind].bare ?? UNIT_TABLES[kind].si;
+}
+
 export function allowedUnits(kind: QuantityKind): string {
   return Object.keys(UNIT_TABLES[kind].units).join(", ");
 }
@@ -108,16 +116,18 @@ export function parseQuantity(kind: QuantityKind, raw: unknown): ParsedQuantity 
     throw new CalorbitError("INVALID_ARGUMENT", `kind: given ${describeValue(kind)}; allowed: ${allowedKinds}`, [{ path: "kind", given: describeValue(kind), allowed: allowedKinds }]);
   }
   const table = UNIT_TABLES[kind];
-  const allowed = `a number in ${table.si} or a string "<number> <unit>" with unit one of ${allowedUnits(kind)}`;
-  if (typeof raw === "number") {
-    return Number.isFinite(raw) ? { ok: true, valueSI: raw } : { ok: false, allowed: `a finite number (${allowed})` };
-  }
+  const allowed = `a number in ${bareUnit(kind)} or a string "<number> <unit>" with unit one of ${allowedUnits(kind)}`;
+  const bare = (value: number): ParsedQuantity | QuantityError => {
+    const valueSI = table.bare === undefined ? value : table.units[table.bare]!(value);
+    return Number.isFinite(valueSI) ? { ok: true, valueSI } : { ok: false, allowed: `a finite number (${allowed})` };
+  };
+  if (typeof raw === "number") return bare(raw);
   if (typeof raw !== "string") return { ok: false, allowed };
   const match = NUMBER_AND_UNIT.exec(raw);
   if (!match) return { ok: false, allowed };
   const value = Number(match[1]);
   const unitText = match[2] ?? "";
-  if (unitText === "") return Number.isFinite(value) ? { ok: true, valueSI: value } : { ok: false, allowed };
+  if (unitText === "") return Number.isFinite(value) ? bare(value) : { ok: false, allowed };
   const convert = table.units[canonicalUnit(unitText)];
   if (!convert) return { ok: false, allowed: `unit one of ${allowedUnits(kind)} (unknown unit "${unitText}")` };
   const valueSI = convert(value);

@@ -2,7 +2,20 @@
 import type { Command } from "commander";
 import { integerFlag } from "../flags.js";
 import { refuseClobber } from "../outputPaths.js";
-import { out } from "../output.js";
+import type { ThermalCase } from "../../model/thermalCase.js";
+import { out, warn } from "../output.js";
+
+/** Fewer solar days per orbit than this, and a daily mean no longer describes what a place sees. */
+const MIN_SOLAR_DAYS_PER_ORBIT = 10;
+
+/** A daily mean averages over many days of one season; a slow or resonant rotator has few or none. */
+function slowRotatorWarning(thermal: ThermalCase, solarDay: (spin: number, n: number) => number | null): string | undefined {
+  const periodSeconds = thermal.orbit.periodSeconds;
+  const day = solarDay(thermal.spin?.rateRadPerSecond ?? (2 * Math.PI) / periodSeconds, (2 * Math.PI) / periodSeconds);
+  if (day !== null && periodSeconds / day >= MIN_SOLAR_DAYS_PER_ORBIT) return undefined;
+  const what = day === null ? "its spin is synchronous (no solar day at all)" : `its solar day is ${(day / periodSeconds).toPrecision(3)} orbits long`;
+  return `these daily means assume many solar days per orbit, but ${what}, so a place on the surface does not see a daily mean: for one place use calorbit run with regime: point`;
+}
 
 interface InsolationFlags {
   latitudes: string;
@@ -14,13 +27,16 @@ async function insolationCommand(scenarioPath: string | undefined, flags: Insola
   const latitudes = integerFlag("--latitudes", flags.latitudes, 2, 1801);
   const phases = integerFlag("--phases", flags.phases, 1, 100_000);
   refuseClobber("insolation", [scenarioPath], [["--out", flags.out]]);
-  const [{ insolationMap }, { insolationCsv }, { loadScenario, writeFileAtomic }] = await Promise.all([
+  const [{ insolationMap }, { insolationCsv }, { loadScenario, writeFileAtomic }, { solarDaySeconds }] = await Promise.all([
     import("../../analysis/insolationMap.js"),
     import("../../report/compareReport.js"),
     import("../io.js"),
+    import("../../physics/geometry.js"),
   ]);
   const { resolved } = loadScenario(scenarioPath);
   const csv = insolationCsv(resolved, insolationMap(resolved.thermal, latitudes, phases));
+  const slow = slowRotatorWarning(resolved.thermal, solarDaySeconds);
+  if (slow !== undefined) warn(slow);
   if (flags.out !== undefined) {
     writeFileAtomic(flags.out, csv);
     out(`insolation map written to ${flags.out} (${latitudes} latitudes × ${phases} phases)\n`);

@@ -5,7 +5,7 @@ import type { SimulateOptions } from "../../run/simulate.js";
 import type { ResolvedScenario } from "../../scenario/resolve.js";
 import { integerFlag, integratorFlag, quantityFlag, toleranceFlag, usage } from "../flags.js";
 import { refuseClobber } from "../outputPaths.js";
-import { out } from "../output.js";
+import { out, warn } from "../output.js";
 
 interface RunFlags {
   integrator?: string;
@@ -19,6 +19,7 @@ interface RunFlags {
   tolerance: string;
   mapCsv?: string;
   mapAt?: string;
+  celsius?: boolean;
 }
 
 async function runCommand(scenarioPath: string | undefined, flags: RunFlags): Promise<void> {
@@ -26,6 +27,7 @@ async function runCommand(scenarioPath: string | undefined, flags: RunFlags): Pr
     relativeTolerance: toleranceFlag(flags.tolerance),
     samples: integerFlag("--samples", flags.samples, 2, 10_000_000),
   };
+  if (flags.celsius && flags.json) throw usage("--celsius", "with --json", "--celsius only with the text report (JSON keeps kelvin: minK, maxK …)");
   if (flags.series && !flags.json) throw usage("--series", "without --json", "--series only with --json (it adds the series to the JSON document; for a table use --csv FILE)");
   refuseClobber("run", [scenarioPath], [["--csv", flags.csv], ["--svg", flags.svg]]);
   const integrator = integratorFlag(flags.integrator);
@@ -39,7 +41,7 @@ async function runCommand(scenarioPath: string | undefined, flags: RunFlags): Pr
     if (!(options.transient.startK > 0)) throw usage("--from", JSON.stringify(flags.from), "a temperature > 0 K");
   }
   // Loaded here, not at start-up: the scenario reader, the solvers and the writers.
-  const [{ loadScenario, writeFileAtomic }, { simulate }, { columnToleranceFor, simulateColumn }, { seriesCsv }, { resultDocument }, { columnCsv, columnDocument, columnText }, { temperatureSvg }, { summaryText }] =
+  const [{ loadScenario, writeFileAtomic }, { simulate }, { columnToleranceFor, simulateColumn }, { seriesCsv }, { resultDocument }, { columnCsv, columnDocument, columnText }, { temperatureSvg }, { summaryText }, { resultWarnings }] =
     await Promise.all([
       import("../io.js"),
       import("../../run/simulate.js"),
@@ -49,8 +51,15 @@ async function runCommand(scenarioPath: string | undefined, flags: RunFlags): Pr
       import("../../report/columnReport.js"),
       import("../../report/svg.js"),
       import("../../report/text.js"),
+      import("../../analysis/sanity.js"),
     ]);
   const { resolved, file } = loadScenario(scenarioPath);
+  const warnings = [...(resolved.warnings ?? [])];
+  const report = (found: string[]) => {
+    warnings.push(...found);
+    // Warnings go to stderr, never into the data on stdout; the JSON result lists them too.
+    for (const w of warnings) warn(w);
+  };
   if (resolved.thermal.climate) return runZonal(resolved, flags, options, writeFileAtomic);
   if (resolved.thermal.regime === "map") {
     if (options.transient) throw usage("--from", JSON.stringify(flags.from ?? ""), "no transient mode for the map regime (it runs to its periodic state)");
@@ -73,18 +82,20 @@ async function runCommand(scenarioPath: string | undefined, flags: RunFlags): Pr
     // The column's periodicity and energy tolerance: 1e-6 unless --tolerance says otherwise.
     const columnTolerance = columnToleranceFor(options.relativeTolerance!, DEFAULT_RELATIVE_TOLERANCE);
     const col = simulateColumn(resolved.thermal, resolved.thermal.column, { relativeTolerance: columnTolerance, samples: options.samples ?? 1000 });
+    report(resultWarnings(resolved.thermal, col.summary, { periodic: true, singleState: false }));
     if (flags.csv !== undefined) writeFileAtomic(flags.csv, columnCsv(resolved, col));
-    if (flags.json) out(JSON.stringify(columnDocument(resolved, col, flags.series === true), null, 2) + "\n");
+    if (flags.json) out(JSON.stringify({ ...columnDocument(resolved, col, flags.series === true), warnings }, null, 2) + "\n");
     else out(columnText(resolved, col));
     return;
   }
   const sim = simulate(resolved.thermal, options);
+  report(resultWarnings(resolved.thermal, sim.summary, { periodic: sim.solver.mode === "periodic", singleState: sim.series.states.length === 1 }));
   if (flags.csv !== undefined) writeFileAtomic(flags.csv, seriesCsv(resolved, sim));
   if (flags.svg !== undefined) writeFileAtomic(flags.svg, temperatureSvg(resolved.thermal.name, sim.series, sim.summary));
   if (flags.json) {
-    out(JSON.stringify(resultDocument(resolved, sim, flags.series === true), null, 2) + "\n");
+    out(JSON.stringify({ ...resultDocument(resolved, sim, flags.series === true), warnings }, null, 2) + "\n");
   } else {
-    out(summaryText(resolved, sim));
+    out(summaryText(resolved, sim, { celsius: flags.celsius === true }));
     if (flags.csv !== undefined) out(`\nseries written to ${flags.csv} (${sim.series.timeSeconds.length} rows)\n`);
     if (flags.svg !== undefined) out(`chart written to ${flags.svg}\n`);
   }
@@ -123,6 +134,7 @@ export function registerRun(program: Command): void {
     .option("--csv <file>", "write the series (time, phase, true anomaly, distance, flux, T, T_eq) as CSV")
     .option("--svg <file>", "write the T and T_eq chart as a standalone SVG")
     .option("--samples <n>", "points in the series, uniform in time", String(DEFAULT_SAMPLES))
+    .option("--celsius", "text report: the temperatures in °C as well as K")
     .option("--from <temperature>", "transient mode: start at this temperature (e.g. 150K, -20degC)")
     .option("--orbits <n>", "transient mode: number of orbits to integrate (default 1)")
     .option("--tolerance <x>", "relative tolerance of the temperatures (a conduction column: 1e-6 unless given)", String(DEFAULT_RELATIVE_TOLERANCE))
