@@ -393,7 +393,7 @@ describe("flags that do not apply, and outputs that would overwrite", () => {
   });
 
   it("compare exits 2 with a sentence when no regime can run (a column scenario), and its day/night refusal is a sentence", async () => {
-    const column = await calorbit("compare", join(SCENARIOS, "sarvek-regolith.yaml"), "--regimes", "global,daynight", "--csv", join(dir, "never-compare.csv"));
+    const column = await calorbit("compare", join(SCENARIOS, "sarvek-regolith.yaml"), "--regimes", "global,dayside", "--csv", join(dir, "never-compare.csv"));
     expect(column.status).toBe(2);
     expect(column.stderr).toBe(
       "calorbit: compare: no regime could run for this scenario, because this case has a conduction column (body.column), and only calorbit run and calorbit sweep solve a column; compare and the viewer's live controls take a slab (body.heatCapacity or body.layer)\n",
