@@ -1,5 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { CalorbitError, parseQuantity, resolveScenario, simulate } from "../src/index.js";
+import { REGIMES } from "../src/model/thermalCase.js";
 
 // Every public entry point answers a wrong argument with the typed error (code INVALID_ARGUMENT for
 // a function's argument, SCENARIO_INVALID for a document), never a TypeError from deep inside.
@@ -38,6 +39,7 @@ describe("public functions refuse bad arguments with CalorbitError", () => {
 
   it("names the regime, not the sky, when the regime is unknown", () => {
     const error = thrown(() => simulate({ star: {}, orbit: {}, surface: {}, regime: "sideways" } as never)) as CalorbitError;
-    expect(error.problems[0]).toEqual({ path: "thermal.regime", given: '"sideways"', allowed: "global, dayside, substellar, daynight, band, point" });
+    expect(error.problems[0]).toEqual({ path: "thermal.regime", given: '"sideways"', allowed: REGIMES.join(", ") });
+    expect(REGIMES).toContain("point");
   });
 });
