@@ -48,6 +48,8 @@ export interface SweepRun {
   out?: string;
   workers: number;
   quiet: boolean;
+  /** Parquet: rows per row group (each one a commit a resume keeps); the default suits long sweeps. */
+  rowGroupRows?: number;
 }
 
 export interface SweepResult {

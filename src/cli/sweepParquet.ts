@@ -6,9 +6,9 @@
  * resuming looks back from the end for the last footer that parses and carries this sweep's definition,
  * cuts the file there and carries on. The definition, version and shard are in the key–value metadata.
  */
-import { closeSync, existsSync, fstatSync, ftruncateSync, openSync, readSync, writeSync } from "node:fs";
+import { closeSync, existsSync, fstatSync, ftruncateSync, openSync, readSync, renameSync, rmSync, writeSync } from "node:fs";
 import { brotliCompressSync, brotliDecompressSync, constants as zlibConstants } from "node:zlib";
-import { parquetMetadata, parquetReadObjects, type FileMetaData } from "hyparquet";
+import { asyncBufferFromFile, parquetMetadata, parquetMetadataAsync, parquetReadObjects, type AsyncBuffer, type FileMetaData } from "hyparquet";
 import { ByteWriter, ParquetWriter, schemaFromColumnData } from "hyparquet-writer";
 import { CalorbitError } from "../errors.js";
 import { columnTypes, fingerprint, statusIndex, type Cell, type ColumnType } from "../sweep/runCase.js";
@@ -170,9 +170,9 @@ export async function openParquetOutput(run: SweepRun): Promise<SweepSink> {
     done = Number(metadata.num_rows);
     if (done > 0) {
       const status = statusIndex(def);
-      const bytes = readAt(fd, 0, end);
-      const file = bytes.buffer.slice(bytes.byteOffset, bytes.byteOffset + bytes.byteLength) as ArrayBuffer;
-      const rows = (await parquetReadObjects({ file, columns: [types[status]!.name], compressors: parquetDecompressors })) as Record<string, unknown>[];
+      // Only the status column is read (the file is cut to its last footer above).
+      const file = await asyncBufferFromFile(path);
+      const rows = (await parquetReadObjects({ file, metadata, columns: [types[status]!.name], compressors: parquetDecompressors })) as Record<string, unknown>[];
       for (const r of rows) {
         const s = r.status;
         if (s !== "ok") {
@@ -210,11 +210,157 @@ export async function openParquetOutput(run: SweepRun): Promise<SweepSink> {
     firstFailureBefore,
     write: (result) => {
       for (const row of result.rows!) buffer.add(row);
-      if (buffer.rows >= ROW_GROUP_ROWS || performance.now() - lastCommit > ROW_GROUP_SECONDS * 1000) commit();
+      if (buffer.rows >= (run.rowGroupRows ?? ROW_GROUP_ROWS) || performance.now() - lastCommit > ROW_GROUP_SECONDS * 1000) commit();
     },
     close: () => {
       commit();
       closeSync(fd);
     },
   };
+}
+
+/** Whether a file starts with Parquet's magic bytes. */
+export function isParquetFile(path: string): boolean {
+  try {
+    const fd = openSync(path, "r");
+    try {
+      const head = readAt(fd, 0, 4);
+      return head.length === 4 && new DataView(head.buffer, head.byteOffset, 4).getUint32(0, true) === MAGIC;
+    } finally {
+      closeSync(fd);
+    }
+  } catch {
+    return false;
+  }
+}
+
+/** A shard file read one row group at a time, in case-id order. */
+interface ShardCursor {
+  file: string;
+  current: Record<string, unknown> | null;
+  next(): Promise<void>;
+}
+
+async function openCursor(file: string, metadata: FileMetaData, buffer: AsyncBuffer): Promise<ShardCursor> {
+  let group = 0;
+  let start = 0;
+  let rows: Record<string, unknown>[] = [];
+  let at = 0;
+  const cursor: ShardCursor = {
+    file,
+    current: null,
+    next: async () => {
+      while (at >= rows.length) {
+        if (group >= metadata.row_groups.length) {
+          cursor.current = null;
+          return;
+        }
+        const count = Number(metadata.row_groups[group]!.num_rows);
+        rows = (await parquetReadObjects({ file: buffer, metadata, rowStart: start, rowEnd: start + count, compressors: parquetDecompressors })) as Record<string, unknown>[];
+        start += count;
+        group++;
+        at = 0;
+      }
+      cursor.current = rows[at++]!;
+    },
+  };
+  await cursor.next();
+  return cursor;
+}
+
+/**
+ * Joins Parquet shard files of one sweep into one Parquet file in case-id order, checking that every
+ * case is present exactly once (as the text merge does); memory holds one row group per shard.
+ */
+export async function mergeParquetShards(files: string[], out: string, totalFor: (definitionJson: string) => number): Promise<{ cases: number }> {
+  const opened = await Promise.all(
+    files.map(async (file) => {
+      const buffer = await asyncBufferFromFile(file);
+      let metadata: FileMetaData;
+      try {
+        metadata = await parquetMetadataAsync(buffer);
+      } catch {
+        throw new CalorbitError("USAGE", `${file}: not a complete Parquet file`, [{ path: "files", given: file, allowed: "complete shard files (rerun an incomplete shard: it resumes)" }]);
+      }
+      const definition = kv(metadata, PARQUET_KEYS.definition);
+      if (definition === undefined) throw new CalorbitError("USAGE", `${file}: not a calorbit sweep file`, [{ path: "files", given: file, allowed: "files written by calorbit sweep" }]);
+      return { file, buffer, metadata, definition };
+    }),
+  );
+  const first = opened[0]!;
+  for (const o of opened) {
+    if (o.definition !== first.definition) throw new CalorbitError("USAGE", `${o.file}: not a shard of the same sweep as ${first.file}`, [{ path: "files", given: o.file, allowed: "shards written by one sweep definition" }]);
+  }
+  const total = totalFor(first.definition);
+  const cursors = await Promise.all(opened.map((o) => openCursor(o.file, o.metadata, o.buffer)));
+  const schema = first.metadata.schema;
+  const leaves = schema.slice(1);
+  const shardCount = /^\d+\/(\d+)$/.exec(kv(first.metadata, PARQUET_KEYS.shard) ?? "")?.[1] ?? "?";
+  const kvMetadata = [
+    { key: PARQUET_KEYS.version, value: kv(first.metadata, PARQUET_KEYS.version) ?? VERSION },
+    { key: PARQUET_KEYS.definition, value: first.definition },
+    { key: PARQUET_KEYS.shard, value: `merged from ${files.length} of ${shardCount} shards` },
+  ];
+  const temporary = `${out}.${process.pid}.partial`;
+  const fd = openSync(temporary, "w+");
+  const writer = new ParquetWriter({ writer: fileWriter(fd, 0), schema, codec: CODEC, compressors, statistics: false, kvMetadata, createdBy: `calorbit ${VERSION}` });
+  const columns = leaves.map((): unknown[] => []);
+  const flush = (): void => {
+    if (columns[0]!.length === 0) return;
+    const columnData = leaves.map((e, c) => ({ name: e.name, data: columns[c]!.slice(), ...(e.type === "DOUBLE" ? { encoding: "BYTE_STREAM_SPLIT" as const } : {}) }));
+    writer.write({ columnData: columnData as never, rowGroupSize: columns[0]!.length });
+    writer.pendingIndexes = [];
+    for (const c of columns) c.length = 0;
+  };
+  const missing: number[] = [];
+  const duplicates: number[] = [];
+  let expected = 0;
+  try {
+    for (;;) {
+      let best: ShardCursor | null = null;
+      for (const c of cursors) if (c.current && (best === null || Number(c.current.case_id) < Number(best.current!.case_id))) best = c;
+      if (best === null) break;
+      const row = best.current!;
+      await best.next();
+      const id = Number(row.case_id);
+      if (id < expected) {
+        if (duplicates.length < 13) duplicates.push(id);
+        continue;
+      }
+      while (expected < id) {
+        if (missing.length < 13) missing.push(expected);
+        expected++;
+      }
+      leaves.forEach((e, c) => columns[c]!.push(row[e.name] ?? null));
+      if (columns[0]!.length >= ROW_GROUP_ROWS) flush();
+      expected++;
+    }
+    while (expected < total) {
+      if (missing.length < 13) missing.push(expected);
+      expected++;
+    }
+    flush();
+    writer.finish();
+  } finally {
+    closeSync(fd);
+  }
+  if (missing.length > 0 || duplicates.length > 0) {
+    rmSync(temporary, { force: true });
+    const list = (a: number[]) => (a.length > 12 ? `${a.slice(0, 12).join(", ")} …` : a.join(", "));
+    const parts = [missing.length ? `cases missing (case ids ${list(missing)})` : "", duplicates.length ? `cases present twice (case ids ${list(duplicates)})` : ""].filter(Boolean);
+    throw new CalorbitError("USAGE", `sweep merge: ${parts.join("; ")}; nothing written`, [
+      { path: "files", given: `sweep merge: ${parts.join("; ")}; nothing written`, allowed: "every shard of the sweep, each complete (rerun an incomplete shard: it resumes)" },
+    ]);
+  }
+  renameSync(temporary, out);
+  return { cases: total };
+}
+
+/** A Parquet sweep file's rows, for the viewer: the column names in order and the rows as records. */
+export async function readParquetSweep(path: string): Promise<{ header: string[]; records: Record<string, unknown>[] }> {
+  const file = await asyncBufferFromFile(path);
+  const metadata = await parquetMetadataAsync(file);
+  if (kv(metadata, PARQUET_KEYS.definition) === undefined) throw new CalorbitError("USAGE", `${path}: a Parquet file not written by calorbit sweep`, []);
+  const records = (await parquetReadObjects({ file, metadata, compressors: parquetDecompressors })) as Record<string, unknown>[];
+  return { header: metadata.schema.slice(1).map((e) => e.name), records };
 }

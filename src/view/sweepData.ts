@@ -50,6 +50,11 @@ export function parseSweepText(text: string): SweepTable {
       return Object.fromEntries(header.map((h, i) => [h, cells[i] ?? ""]));
     });
   }
+  return sweepTableFromRecords(header, records);
+}
+
+/** A sweep's rows (any format, read by the caller) as the viewer's table; a Parquet reader gives bigint ids. */
+export function sweepTableFromRecords(header: string[], records: Record<string, unknown>[]): SweepTable {
   const statusAt = header.indexOf("status");
   const inputs = header.slice(1, statusAt < 0 ? 1 : statusAt);
   const metrics = header.slice(statusAt + 1).filter((h) => !NON_METRICS.has(h));
@@ -57,7 +62,7 @@ export function parseSweepText(text: string): SweepTable {
   for (const name of [...inputs, ...metrics]) {
     columns[name] = records.map((r) => {
       const v = r[name];
-      const x = typeof v === "number" ? v : v === "" || v === null || v === undefined ? NaN : Number(v);
+      const x = typeof v === "number" ? v : typeof v === "bigint" ? Number(v) : v === "" || v === null || v === undefined ? NaN : Number(v);
       return Number.isFinite(x) ? x : NaN;
     });
   }

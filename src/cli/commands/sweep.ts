@@ -17,7 +17,7 @@ import { resolve as resolvePath } from "node:path";
 
 /** The sweep modules, loaded only when a sweep command runs (help and other commands start light). */
 async function sweepModules() {
-  const [design, spec, check, shard, jobScript, io, runner] = await Promise.all([
+  const [design, spec, check, shard, jobScript, io, runner, parquet] = await Promise.all([
     import("../../sweep/design.js"),
     import("../../sweep/spec.js"),
     import("../../sweep/check.js"),
@@ -25,8 +25,9 @@ async function sweepModules() {
     import("../../sweep/jobScript.js"),
     import("../io.js"),
     import("../sweep.js"),
+    import("../sweepParquet.js"),
   ]);
-  return { ...design, ...spec, ...check, ...shard, ...jobScript, ...io, ...runner };
+  return { ...design, ...spec, ...check, ...shard, ...jobScript, ...io, ...runner, ...parquet };
 }
 type SweepModules = Awaited<ReturnType<typeof sweepModules>>;
 
@@ -132,7 +133,11 @@ async function sweepCommand(args: string[], flags: SweepFlags): Promise<void> {
   const m = await sweepModules();
   if (args[0] === "merge") {
     if (flags.out === undefined) throw usage("--out", "missing", "the merged file to write, e.g. --out all.csv");
-    const { cases } = m.mergeShards(args.slice(1), flags.out, (d) => definitionTotal(m, d));
+    const files = args.slice(1);
+    const parquet = files.length > 0 && files.every((f) => m.isParquetFile(f));
+    const total = (d: string) => definitionTotal(m, d);
+    if (parquet && files.some((f) => resolvePath(f) === resolvePath(flags.out!))) throw usage("--out", JSON.stringify(flags.out), "a new file name (an input is never overwritten)");
+    const { cases } = parquet ? await m.mergeParquetShards(files, flags.out, total) : m.mergeShards(files, flags.out, total);
     out(`merged ${args.length - 1} shard files: ${cases} cases, each once, into ${flags.out}\n`);
     return;
   }

@@ -13,7 +13,7 @@ interface ViewFlags {
 async function viewCommand(path: string | undefined, flags: ViewFlags): Promise<void> {
   const port = integerFlag("--port", flags.port, 0, 65535);
   // The engine, the writers and the HTTP server load only when the viewer starts.
-  const [{ columnDocument }, { resultDocument }, { simulateColumn }, { simulate }, { parseSweepText }, { loadScenarioDocument }, { startViewServer }, { resolveScenario }] = await Promise.all([
+  const [{ columnDocument }, { resultDocument }, { simulateColumn }, { simulate }, { parseSweepText, sweepTableFromRecords }, { loadScenarioDocument }, { startViewServer }, { resolveScenario }] = await Promise.all([
     import("../../report/columnReport.js"),
     import("../../report/document.js"),
     import("../../run/simulateColumn.js"),
@@ -24,7 +24,11 @@ async function viewCommand(path: string | undefined, flags: ViewFlags): Promise<
     import("../../scenario/resolve.js"),
   ]);
   let resultJson: string;
-  if (path !== undefined && isSweepFile(path)) {
+  const parquet = path !== undefined && path.toLowerCase().endsWith(".parquet") ? await import("../sweepParquet.js") : null;
+  if (path !== undefined && parquet?.isParquetFile(path)) {
+    const { header, records } = await parquet.readParquetSweep(path);
+    resultJson = JSON.stringify({ kind: "sweep", file: path, table: sweepTableFromRecords(header, records) });
+  } else if (path !== undefined && isSweepFile(path)) {
     resultJson = JSON.stringify({ kind: "sweep", file: path, table: parseSweepText(readFileSync(path, "utf8")) });
   } else if (path !== undefined && path.toLowerCase().endsWith(".json") && looksLikeResult(path)) {
     resultJson = readFileSync(path, "utf8");
