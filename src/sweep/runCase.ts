@@ -84,7 +84,7 @@ export interface ColumnType {
   nullable: boolean;
 }
 
-const INTEGER_METRICS = new Set<string>(["iterations", "orbits", "evaluations"]);
+const INTEGER_METRICS = new Set<string>(["iterations", "orbits", "evaluations", "snowball", "climates"]);
 
 /** The columns with their types (Parquet): numbers as doubles (counts as integers), text as strings. */
 export function columnTypes(def: SweepDefinition): ColumnType[] {
