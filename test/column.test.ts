@@ -164,3 +164,32 @@ describe("an airless regolith against published lunar temperatures", () => {
     expect(Math.abs(deep.meanK - 250)).toBeLessThan(20);
   });
 });
+
+describe("a column under a retrograde spin", () => {
+  it("sizes its grid and steps from the retrograde solar day: a 17:16 spin at obliquity 180° equals a 49:16 spin at 0°", () => {
+    // On a circular orbit a spin Ω about the flipped axis (θ = 180°) sees the star move at Ω + n, a
+    // prograde spin at 0° at Ω − n (common practice): 17/16 + 1 = 49/16 − 1 = 33/16 of n, so both
+    // points have the same forcing, the same 33 solar days per 16-orbit cycle, and must give the same column.
+    const P = 3.15576e7;
+    const n = (2 * Math.PI) / P;
+    const base = { ...nominalCase({ e: 0, albedo: 0.1 }), regime: "point" as const, location: { latitudeRad: 0.3, longitudeRad: 0 } };
+    const column = {
+      properties: homogeneous(0.01, 1500, 800),
+      grid: { ...DEFAULT_GRID, stepsPerShortestPeriod: 64, depthInSkinDepths: 2 },
+      outputDepthsM: [],
+      interiorFluxWPerM2: 0.05,
+    };
+    const run = (spinRatio: number, obliquityRad: number) =>
+      simulateColumn({ ...base, spin: { rateRadPerSecond: (spinRatio / 16) * n, ratio: { spin: spinRatio, orbit: 16 }, obliquityRad, equinoxTrueAnomalyRad: 0 } }, column);
+    const retrograde = run(17, Math.PI);
+    const prograde = run(49, 0);
+    expect(retrograde.summary.solarDaySeconds! / P).toBeCloseTo(16 / 33, 12);
+    expect(prograde.summary.solarDaySeconds! / P).toBeCloseTo(16 / 33, 12);
+    expect(retrograde.solver.stepsPerCycle).toBe(prograde.solver.stepsPerCycle);
+    expect(retrograde.solver.layers).toBe(prograde.solver.layers);
+    expect(retrograde.summary.skinDepths.diurnalM).toBeCloseTo(prograde.summary.skinDepths.diurnalM!, 12);
+    for (const key of ["minK", "maxK", "meanK"] as const) {
+      expect(Math.abs(retrograde.summary.temperature[key] / prograde.summary.temperature[key] - 1)).toBeLessThan(1e-9);
+    }
+  });
+});

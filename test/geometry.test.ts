@@ -6,6 +6,7 @@ import { equilibriumTemperature, stellarFlux } from "../src/physics/flux.js";
 import { dailyMeanInsolation, solarDaySeconds, substellarLongitude } from "../src/physics/geometry.js";
 import { trueAnomalyFromEccentric, eccentricAnomaly } from "../src/physics/kepler.js";
 import { simulate } from "../src/run/simulate.js";
+import { buildThermalModel } from "../src/model/build.js";
 import { nominalCase } from "./helpers.js";
 
 const deg = Math.PI / 180;
@@ -154,7 +155,7 @@ describe("surface points on a spinning body", () => {
 
   it("gives a 3:2 resonance a solar day of exactly two orbits", () => {
     // 1/P_solar = 1/P_spin − 1/P_orbit = (3/2 − 1)/P ⇒ P_solar = 2P, from the spin and orbital rates alone.
-    expect(solarDaySeconds((1.5 * 2 * Math.PI) / YEAR, (2 * Math.PI) / YEAR)! / YEAR).toBeCloseTo(2, 12);
+    expect(solarDaySeconds((1.5 * 2 * Math.PI) / YEAR, (2 * Math.PI) / YEAR, 0)! / YEAR).toBeCloseTo(2, 12);
     const sim = simulate(
       {
         ...nominalCase({ e: 0.2, heatCapacity: 1e6, aAu: 0.4, periodSeconds: YEAR * 0.4 ** 1.5 }),
@@ -214,6 +215,51 @@ describe("surface points on a spinning body", () => {
       }
       // ν − M = 2e sin M + (5/4) e² sin 2M + O(e³): the maximum is 2e to first order.
       expect(Math.abs(amplitude / (2 * e) - 1)).toBeLessThan(2 * e);
+    }
+  });
+});
+
+describe("retrograde spins (obliquity above 90°)", () => {
+  const DAY = 86_400;
+
+  it("gives a Venus-like spin its 116.75-day solar day (NASA planetary fact sheet, from memory)", () => {
+    // Sidereal rotation 243.02 d retrograde, written as a prograde spin at obliquity 177.4°; orbit
+    // 224.70 d; published solar day 116.75 d (fact-sheet values, from memory). The solar day is
+    // 2π/|Ω − sgn(cos θ) n| = 1/(1/243.02 + 1/224.70) d.
+    const spin = (2 * Math.PI) / (243.02 * DAY);
+    const n = (2 * Math.PI) / (224.7 * DAY);
+    expect(Math.abs(solarDaySeconds(spin, n, 177.4 * deg)! / DAY - 116.75)).toBeLessThan(0.005);
+    // The same spin about the unflipped axis would be the prograde 2957-day day.
+    expect(solarDaySeconds(spin, n, 2.6 * deg)! / DAY).toBeGreaterThan(2900);
+    const venusLike: ThermalCase = {
+      ...nominalCase({ e: 0.0068, aAu: 0.723, periodSeconds: 224.7 * DAY, heatCapacity: 1e6 }),
+      regime: "point",
+      location: { latitudeRad: 0, longitudeRad: 0 },
+      spin: { rateRadPerSecond: spin, obliquityRad: 177.4 * deg, equinoxTrueAnomalyRad: 0 },
+    };
+    expect(Math.abs(buildThermalModel(venusLike).solarDaySeconds! / DAY - 116.75)).toBeLessThan(0.005);
+  });
+
+  it("gives a 1:1 spin at obliquity 180° two solar days per orbit, not a synchronous label", () => {
+    const n = (2 * Math.PI) / YEAR;
+    expect(solarDaySeconds(n, n, Math.PI)! / YEAR).toBeCloseTo(0.5, 12);
+    expect(solarDaySeconds(n, n, 0)).toBeNull();
+    const flipped: ThermalCase = {
+      ...nominalCase({ e: 0, heatCapacity: 1e6, albedo: 0.1 }),
+      regime: "point",
+      location: { latitudeRad: 0, longitudeRad: 0 },
+      spin: { rateRadPerSecond: n, ratio: { spin: 1, orbit: 1 }, obliquityRad: Math.PI, equinoxTrueAnomalyRad: 0 },
+    };
+    const sim = simulate(flipped, { samples: 0 });
+    expect(sim.summary.solarDaySeconds! / YEAR).toBeCloseTo(0.5, 12);
+    // The absorbed flux was already right: on a circular orbit the equator's mean is (1 − A) S/π,
+    // the daily-mean insolation of the equator with the star in its plane (Berger 1978, from memory).
+    const s0 = stellarFlux(SOLAR_LUMINOSITY_W, ASTRONOMICAL_UNIT_M);
+    expect(Math.abs(sim.summary.meanAbsorbedWPerM2 / ((0.9 * s0) / Math.PI) - 1)).toBeLessThan(1e-6);
+    // And with two solar days per orbit it is the same point as a prograde 3:1 spin (solar rate 2n both).
+    const prograde = simulate({ ...flipped, spin: { rateRadPerSecond: 3 * n, ratio: { spin: 3, orbit: 1 }, obliquityRad: 0, equinoxTrueAnomalyRad: 0 } }, { samples: 0 });
+    for (const key of ["minK", "maxK", "meanK"] as const) {
+      expect(Math.abs(sim.summary.temperature[key] / prograde.summary.temperature[key] - 1)).toBeLessThan(1e-8);
     }
   });
 });

@@ -136,7 +136,7 @@ export const REGIME_TABLE: Readonly<Record<Regime, RegimeEntry>> = {
       return singleCell(forcing, {
         cycleOrbits: cycle.orbits,
         commensurate: cycle.commensurate,
-        solarDaySeconds: solarDaySeconds(spin.rateRadPerSecond, n),
+        solarDaySeconds: solarDaySeconds(spin.rateRadPerSecond, n, spin.obliquityRad),
         forcingHasCorners: true,
       });
     },

@@ -4,7 +4,7 @@
  * equation: r = a(1 − e cos E) is explicit, and so are the time and the true anomaly.
  */
 import { GEOMETRY_FACTOR, stellarFlux, type LumpedRegime } from "./flux.js";
-import { dailyMeanInsolation, stellarDeclination, type SpinGeometry } from "./geometry.js";
+import { dailyMeanInsolation, solarDaySeconds, stellarDeclination, type SpinGeometry } from "./geometry.js";
 import { meanMotion, type Orbit } from "./orbit.js";
 
 export interface Forcing {
@@ -109,7 +109,8 @@ export function pointForcing(
     const mu = sinLat * sinDecl + cosLat * cosDecl * Math.cos(h);
     return mu > 0 ? (absorbedAtA / (w * w)) * mu : 0;
   };
-  const daysPerOrbit = Math.abs(spinPerAnomaly - 1);
+  const solarDay = solarDaySeconds(spin.rateRadPerSecond, n, spin.obliquityRad);
+  const daysPerOrbit = solarDay === null ? 0 : orbit.periodSeconds / solarDay;
   const points = Math.min(1 << 20, Math.max(4096, Math.ceil(64 * daysPerOrbit * cycleOrbits)));
   return { absorbedAt, meanAbsorbedWPerM2: orbitMeanByQuadrature(absorbedAt, e, cycleOrbits, Math.ceil(points / cycleOrbits)) };
 }

@@ -58,11 +58,17 @@ export function cosZenith(latitudeRad: number, declinationRad: number, hourAngle
 }
 
 /**
- * Mean solar day, s: the synodic period 2π/|Ω − n| of a prograde spin Ω against the mean motion n;
- * null for a synchronous (1:1) spin, which has no solar day.
+ * Mean solar day, s: the synodic period 2π/|Ω − sgn(cos θ) n| of a spin of rate Ω (> 0) about an
+ * axis of obliquity θ against the mean motion n. With θ > 90° the body turns against its orbital
+ * motion (a retrograde spin written as a prograde one about the flipped axis), so the star's daily
+ * motion adds to the spin instead of cancelling it: a 1:1 spin at θ = 180° has two solar days per
+ * orbit (common practice). Null only for a synchronous spin (Ω = n, θ < 90°), which has no solar
+ * day; at exactly θ = 90° the orbit's motion is along the axis and the day is the sidereal one.
  */
-export function solarDaySeconds(spinRateRadPerSecond: number, meanMotionRadPerSecond: number): number | null {
-  const difference = Math.abs(spinRateRadPerSecond - meanMotionRadPerSecond);
+export function solarDaySeconds(spinRateRadPerSecond: number, meanMotionRadPerSecond: number, obliquityRad: number): number | null {
+  const cosTheta = Math.cos(obliquityRad);
+  const sense = Math.abs(cosTheta) < 1e-12 ? 0 : Math.sign(cosTheta);
+  const difference = Math.abs(spinRateRadPerSecond - sense * meanMotionRadPerSecond);
   return difference <= 1e-12 * meanMotionRadPerSecond ? null : TWO_PI / difference;
 }
 
