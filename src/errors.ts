@@ -8,6 +8,7 @@ export type ErrorCode =
   | "KEPLER_NO_CONVERGENCE" // Kepler's equation did not converge within the iteration cap
   | "INTEGRATION_FAILED" // the ODE solver gave up (step limit, non-finite state)
   | "PERIODIC_NO_CONVERGENCE" // the shooting iteration did not find T(0) = T(P)
+  | "EQUILIBRIUM_NO_CONVERGENCE" // an instantaneous balance (day/night, a column's surface) did not converge
   | "SCENARIO_INVALID" // a scenario failed validation; `problems` holds one entry per field
   | "SCENARIO_UNREADABLE" // a scenario file is missing or cannot be parsed
   | "SWEEP_WORKER_FAILED" // a sweep worker thread died (not a case failing: those become rows)

@@ -1,7 +1,8 @@
 import { describe, expect, it } from "vitest";
 import { STEFAN_BOLTZMANN } from "../src/constants.js";
 import { buildColumnGrid, DEFAULT_GRID, skinDepthM, type ColumnProperties } from "../src/physics/column.js";
-import { solveColumnPeriodic, type ColumnProblem } from "../src/solve/columnSolver.js";
+import { solveColumnPeriodic, solveSurface, type ColumnProblem } from "../src/solve/columnSolver.js";
+import { CalorbitError } from "../src/errors.js";
 import { simulate } from "../src/run/simulate.js";
 import { simulateColumn } from "../src/run/simulateColumn.js";
 import { nominalCase } from "./helpers.js";
@@ -191,5 +192,34 @@ describe("a column under a retrograde spin", () => {
     for (const key of ["minK", "maxK", "meanK"] as const) {
       expect(Math.abs(retrograde.summary.temperature[key] / prograde.summary.temperature[key] - 1)).toBeLessThan(1e-9);
     }
+  });
+});
+
+describe("the column's iteration caps", () => {
+  it("raises PERIODIC_NO_CONVERGENCE, saying what did not converge, when the cycle cap is reached", () => {
+    const { problem } = halfSpace(0.5, 120);
+    let caught: unknown;
+    try {
+      solveColumnPeriodic({ ...problem, maxCycles: 1 }, 1e-9);
+    } catch (error) {
+      caught = error;
+    }
+    expect(caught).toBeInstanceOf(CalorbitError);
+    expect((caught as CalorbitError).code).toBe("PERIODIC_NO_CONVERGENCE");
+    expect((caught as CalorbitError).message).toMatch(/^the column did not reach a periodic state in 1 cycle\(s\) \(periodicity .*, energy residual .*; tolerance 1\.00e-9\)$/);
+    // The same problem with the default cap converges (the cap, not the problem, stopped it).
+    expect(solveColumnPeriodic(problem, 1e-9).cycles).toBeGreaterThan(1);
+  });
+
+  it("solves the surface balance to Stefan–Boltzmann's equilibrium and raises EQUILIBRIUM_NO_CONVERGENCE at its cap", () => {
+    // With no conductance the balance is F = εσT⁴: T = (F/(εσ))^(1/4) (Stefan–Boltzmann law, CODATA 2018 σ).
+    const f = 1361;
+    expect(Math.abs(solveSurface(f, 200, 50, 0.9 * STEFAN_BOLTZMANN, 0) / (f / (0.9 * STEFAN_BOLTZMANN)) ** 0.25 - 1)).toBeLessThan(1e-12);
+    // With a conductance G the result satisfies F − εσT⁴ − G (T − T₀) = 0.
+    const t = solveSurface(f, 200, 50, STEFAN_BOLTZMANN, 3);
+    expect(Math.abs(f - STEFAN_BOLTZMANN * t ** 4 - 3 * (t - 200)) / f).toBeLessThan(1e-12);
+    expect(() => solveSurface(f, 200, 5, STEFAN_BOLTZMANN, 3, 3)).toThrowError(
+      expect.objectContaining({ code: "EQUILIBRIUM_NO_CONVERGENCE", message: expect.stringMatching(/^the column's surface balance at the cycle's start did not converge in 3 Newton steps/) }),
+    );
   });
 });

@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { ASTRONOMICAL_UNIT_M, SOLAR_LUMINOSITY_W, STEFAN_BOLTZMANN } from "../src/constants.js";
 import type { ThermalCase } from "../src/model/thermalCase.js";
-import { DayNightBalance } from "../src/physics/dayNight.js";
+import { DayNightBalance, exchangeEquilibrium } from "../src/physics/dayNight.js";
 import { equilibriumTemperature, stellarFlux } from "../src/physics/flux.js";
 import { dailyMeanInsolation, solarDaySeconds, substellarLongitude } from "../src/physics/geometry.js";
 import { trueAnomalyFromEccentric, eccentricAnomaly } from "../src/physics/kepler.js";
@@ -87,6 +87,21 @@ describe("day/night hemispheres", () => {
     const h = 3 * (td - tn);
     expect(Math.abs(s / 2 - STEFAN_BOLTZMANN * td ** 4 - h) / s).toBeLessThan(1e-12);
     expect(Math.abs(h - STEFAN_BOLTZMANN * tn ** 4) / s).toBeLessThan(1e-12);
+  });
+});
+
+describe("the day/night equilibrium's iteration cap", () => {
+  it("raises EQUILIBRIUM_NO_CONVERGENCE, saying which balance, when Newton's method reaches its cap", () => {
+    const out = new Float64Array(2);
+    // Uniform dayside (L = 4 f_d − 1 = 1), k = 3 W m⁻² K⁻¹: the default cap converges and both equations hold.
+    exchangeEquilibrium(680, 0, STEFAN_BOLTZMANN, 1, 3, out);
+    const h = 3 * (out[0]! - out[1]!);
+    expect(Math.abs(680 - STEFAN_BOLTZMANN * out[0]! ** 4 - h) / 680).toBeLessThan(1e-12);
+    expect(Math.abs(h - STEFAN_BOLTZMANN * out[1]! ** 4) / 680).toBeLessThan(1e-12);
+    // One step from the mixed start cannot meet the 1e-13 criterion: a typed error, not a silent guess.
+    expect(() => exchangeEquilibrium(680, 0, STEFAN_BOLTZMANN, 1, 3, out, 1)).toThrowError(
+      expect.objectContaining({ code: "EQUILIBRIUM_NO_CONVERGENCE", message: expect.stringMatching(/^the day\/night equilibrium with an exchange coefficient did not converge in 1 Newton steps/) }),
+    );
   });
 });
 

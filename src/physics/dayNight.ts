@@ -1,6 +1,7 @@
 /**
- * Two hemispheres exchanging heat: a dayside under the star and a nightside, each with its own
- * areal heat capacity, state y = [T_day, T_night] in K, independent variable E:
+ * Two hemispheres exchanging heat: a dayside under the star and a nightside that share the body's
+ * one areal heat capacity C (J m⁻² K⁻¹ per unit area of either hemisphere: there is no separate
+ * day and night capacity), state y = [T_day, T_night] in K, independent variable E:
  *   C dT_d/dt = f_d (1 − A) S + q − εσT_d⁴ − (4 f_d − 1) H
  *   C dT_n/dt =               q − εσT_n⁴ + H
  *   H = ε_r (1 − A) S / 4 + k (T_d − T_n)
@@ -12,6 +13,7 @@
  * dayside is the brightness an observer at full phase would see, not a closed energy budget.
  */
 import { STEFAN_BOLTZMANN } from "../constants.js";
+import { CalorbitError } from "../errors.js";
 import type { OdeSystem } from "../solve/system.js";
 import { checkSurface, type SurfaceProperties } from "./energyBalance.js";
 import { stellarFlux } from "./flux.js";
@@ -107,30 +109,60 @@ export class DayNightBalance implements OdeSystem {
     const forced = (this.exchange.recirculation * s) / 4;
     const dayInput = this.daysideFactor * s + this.q - this.lossFactor * forced;
     const nightInput = this.q + forced;
-    let td = Math.sqrt(Math.sqrt(Math.max(dayInput, 0) / this.emission));
-    let tn = Math.sqrt(Math.sqrt(Math.max(nightInput, 0) / this.emission));
     const k = this.exchange.coefficientWPerM2K;
     if (k > 0) {
-      // Start from the fully mixed state (both hemispheres share the input), then Newton.
-      const shared = Math.sqrt(Math.sqrt((dayInput + this.lossFactor * nightInput) / (1 + this.lossFactor) / this.emission));
-      td = shared;
-      tn = shared;
-      for (let i = 0; i < 60; i++) {
-        const r0 = dayInput - this.emission * td ** 4 - this.lossFactor * k * (td - tn);
-        const r1 = nightInput - this.emission * tn ** 4 + k * (td - tn);
-        const a = -4 * this.emission * td ** 3 - this.lossFactor * k;
-        const b = this.lossFactor * k;
-        const c = k;
-        const d = -4 * this.emission * tn ** 3 - k;
-        const det = a * d - b * c;
-        const dd = (-r0 * d + r1 * b) / det;
-        const dn = (-r1 * a + r0 * c) / det;
-        td = Math.max(td + dd, 0.5 * td);
-        tn = Math.max(tn + dn, 0.5 * tn);
-        if (Math.abs(dd) <= 1e-13 * td && Math.abs(dn) <= 1e-13 * tn) break;
-      }
+      exchangeEquilibrium(dayInput, nightInput, this.emission, this.lossFactor, k, out);
+    } else {
+      out[0] = Math.sqrt(Math.sqrt(Math.max(dayInput, 0) / this.emission));
+      out[1] = Math.sqrt(Math.sqrt(Math.max(nightInput, 0) / this.emission));
     }
-    out[0] = td;
-    out[1] = tn;
   }
+}
+
+/** Newton iterations allowed for the exchange-coefficient equilibrium (it takes 4–8 from the mixed start). */
+export const EXCHANGE_EQUILIBRIUM_MAX_ITERATIONS = 60;
+
+/**
+ * The two balance equations with an exchange coefficient k (W m⁻² K⁻¹), solved for [T_day, T_night]
+ * into `out` by Newton's method from the fully mixed state:
+ *   P_d − εσT_d⁴ − L k (T_d − T_n) = 0,   P_n − εσT_n⁴ + k (T_d − T_n) = 0
+ * with P_d, P_n the day and night inputs (W m⁻²), εσ the emission coefficient and L = 4 f_d − 1.
+ * Throws EQUILIBRIUM_NO_CONVERGENCE, naming the balance and the last step, if the cap is reached.
+ */
+export function exchangeEquilibrium(
+  dayInput: number,
+  nightInput: number,
+  emission: number,
+  lossFactor: number,
+  k: number,
+  out: Float64Array,
+  maxIterations = EXCHANGE_EQUILIBRIUM_MAX_ITERATIONS,
+): void {
+  const shared = Math.sqrt(Math.sqrt((dayInput + lossFactor * nightInput) / (1 + lossFactor) / emission));
+  let td = shared;
+  let tn = shared;
+  let dd = NaN;
+  let dn = NaN;
+  for (let i = 0; i < maxIterations; i++) {
+    const r0 = dayInput - emission * td ** 4 - lossFactor * k * (td - tn);
+    const r1 = nightInput - emission * tn ** 4 + k * (td - tn);
+    const a = -4 * emission * td ** 3 - lossFactor * k;
+    const b = lossFactor * k;
+    const c = k;
+    const d = -4 * emission * tn ** 3 - k;
+    const det = a * d - b * c;
+    dd = (-r0 * d + r1 * b) / det;
+    dn = (-r1 * a + r0 * c) / det;
+    td = Math.max(td + dd, 0.5 * td);
+    tn = Math.max(tn + dn, 0.5 * tn);
+    if (Math.abs(dd) <= 1e-13 * td && Math.abs(dn) <= 1e-13 * tn) {
+      out[0] = td;
+      out[1] = tn;
+      return;
+    }
+  }
+  throw new CalorbitError(
+    "EQUILIBRIUM_NO_CONVERGENCE",
+    `the day/night equilibrium with an exchange coefficient did not converge in ${maxIterations} Newton steps (last steps ${dd.toExponential(2)} K day, ${dn.toExponential(2)} K night)`,
+  );
 }

@@ -2,8 +2,9 @@
  * Time stepping of a conduction column to its periodic steady state.
  *
  * Finite volumes on the column's layers plus a surface node without heat capacity. Crank–Nicolson
- * in time for the layers (second order; temperature-dependent k and c are taken at the step's
- * start, which costs that part first order), and the surface balance F − εσT_s⁴ − G_s (T_s − T₀) = 0
+ * in time for the layers (second order; a temperature-dependent k is taken at the step's start,
+ * which costs that part first order; a temperature-dependent c is taken at the step's midpoint
+ * temperature by a second pass, so that ∮ c dT closes), and the surface balance F − εσT_s⁴ − G_s (T_s − T₀) = 0
  * enforced at every new time. Each step eliminates the tridiagonal system from the bottom up
  * (the Thomas algorithm run upwards) to T₀ = a + b T_s, solves the scalar surface balance by
  * Newton's method, and substitutes back down. The scheme conserves energy exactly against the
@@ -34,6 +35,8 @@ export interface ColumnProblem {
   initialK: number;
   /** Skin depth of the shortest forcing period, m (where acceleration may act). */
   shortSkinDepthM: number;
+  /** Cap on the cycles run towards the periodic state (default 400); reaching it is an error. */
+  maxCycles?: number;
 }
 
 export interface ColumnResult {
@@ -56,7 +59,8 @@ export interface ColumnResult {
 }
 
 const MAX_NEWTON = 30;
-const MAX_CYCLES = 400;
+const MAX_SURFACE_NEWTON = 60;
+export const DEFAULT_MAX_COLUMN_CYCLES = 400;
 
 export function solveColumnPeriodic(problem: ColumnProblem, relativeTolerance: number): ColumnResult {
   const { grid, properties: p } = problem;
@@ -106,7 +110,8 @@ export function solveColumnPeriodic(problem: ColumnProblem, relativeTolerance: n
   let lastResidual = Infinity;
   let meanAbsorbed = 0;
   let meanEmitted = 0;
-  for (let cycle = 1; cycle <= MAX_CYCLES; cycle++) {
+  const maxCycles = problem.maxCycles ?? DEFAULT_MAX_COLUMN_CYCLES;
+  for (let cycle = 1; cycle <= maxCycles; cycle++) {
     startOfCycle.set(T);
     profileMinK.fill(Infinity);
     profileMaxK.fill(-Infinity);
@@ -123,9 +128,10 @@ export function solveColumnPeriodic(problem: ColumnProblem, relativeTolerance: n
       const dt = stepT[k + 1]! - stepT[k]!;
       Tn.set(T);
       const tsOld = ts;
-      // Coefficients at the step's start (lagged when they depend on T; computed once when not).
-      // The same conductances serve both halves of the step, so the interior fluxes telescope and
-      // the step conserves energy exactly.
+      // Conductances at the step's start (lagged when k depends on T; computed once when not). The
+      // same conductances serve both halves of the step, so the interior fluxes telescope and the
+      // step conserves energy exactly. Capacities start there too; with c(T) the second pass below
+      // replaces them by their value at the step's midpoint temperature.
       if (!constantCoefficients || (cycle === 1 && k === 0)) {
         fillConductances(conductance, Tn, tsOld);
         for (let i = 0; i < n; i++) capacity[i] = grid.density[i]! * specificHeatAt(p, Tn[i]!) * grid.thicknessM[i]!;
@@ -157,7 +163,9 @@ export function solveColumnPeriodic(problem: ColumnProblem, relativeTolerance: n
         const gs = conductance[0]!;
         let t = tsOld;
         for (let iteration = 0; ; iteration++) {
-          if (iteration >= MAX_NEWTON) throw new CalorbitError("INTEGRATION_FAILED", "the column's surface balance did not converge");
+          if (iteration >= MAX_NEWTON) {
+            throw new CalorbitError("EQUILIBRIUM_NO_CONVERGENCE", `the column's surface balance did not converge in ${MAX_NEWTON} Newton steps (step ${k + 1} of ${steps}, cycle ${cycle})`);
+          }
           newtonIterations++;
           const t3 = t * t * t;
           const r = fNew - emission * t3 * t - gs * (t - offset[0]! - slope[0]! * t);
@@ -240,7 +248,7 @@ export function solveColumnPeriodic(problem: ColumnProblem, relativeTolerance: n
   }
   throw new CalorbitError(
     "PERIODIC_NO_CONVERGENCE",
-    `the column did not reach a periodic state in ${MAX_CYCLES} cycles (periodicity ${lastPeriodicity.toExponential(2)}, energy residual ${lastResidual.toExponential(2)})`,
+    `the column did not reach a periodic state in ${maxCycles} cycle(s) (periodicity ${lastPeriodicity.toExponential(2)}, energy residual ${lastResidual.toExponential(2)}; tolerance ${relativeTolerance.toExponential(2)})`,
   );
 
   function record(k: number): void {
@@ -256,15 +264,24 @@ export function solveColumnPeriodic(problem: ColumnProblem, relativeTolerance: n
   }
 }
 
-/** Surface temperature in balance with absorbed flux F and a layer at T₀ through conductance G. */
-function solveSurface(f: number, t0: number, guess: number, emission: number, g: number): number {
+/**
+ * Surface temperature in balance with absorbed flux F and a layer at T₀ through conductance G
+ * (Newton's method; the residual is monotonic in T, so it converges from any positive start unless
+ * the inputs are not finite). Throws EQUILIBRIUM_NO_CONVERGENCE at the cap.
+ */
+export function solveSurface(f: number, t0: number, guess: number, emission: number, g: number, maxIterations = MAX_SURFACE_NEWTON): number {
   let t = guess > 0 ? guess : t0;
-  for (let i = 0; i < 60; i++) {
+  let change = NaN;
+  for (let i = 0; i < maxIterations; i++) {
     const r = f - emission * t ** 4 - g * (t - t0);
     const d = -4 * emission * t ** 3 - g;
     const next = Math.max(0.5 * t, t - r / d);
-    if (Math.abs(next - t) <= 1e-13 * t) return next;
+    change = next - t;
+    if (Math.abs(change) <= 1e-13 * t) return next;
     t = next;
   }
-  return t;
+  throw new CalorbitError(
+    "EQUILIBRIUM_NO_CONVERGENCE",
+    `the column's surface balance at the cycle's start did not converge in ${maxIterations} Newton steps (last step ${change.toExponential(2)} K at ${t.toPrecision(6)} K)`,
+  );
 }
