@@ -3,7 +3,8 @@ import { ASTRONOMICAL_UNIT_M, SOLAR_LUMINOSITY_W, STEFAN_BOLTZMANN } from "../sr
 import type { ThermalCase } from "../src/model/thermalCase.js";
 import { DayNightBalance, exchangeEquilibrium } from "../src/physics/dayNight.js";
 import { equilibriumTemperature, stellarFlux } from "../src/physics/flux.js";
-import { dailyMeanInsolation, solarDaySeconds, substellarLongitude } from "../src/physics/geometry.js";
+import { bandForcing, pointForcing } from "../src/physics/forcing.js";
+import { cosZenith, dailyMeanInsolation, hourAngle, solarDaySeconds, stellarRightAscension, substellarLongitude } from "../src/physics/geometry.js";
 import { trueAnomalyFromEccentric, eccentricAnomaly } from "../src/physics/kepler.js";
 import { simulate } from "../src/run/simulate.js";
 import { buildThermalModel } from "../src/model/build.js";
@@ -275,6 +276,49 @@ describe("retrograde spins (obliquity above 90°)", () => {
     const prograde = simulate({ ...flipped, spin: { rateRadPerSecond: 3 * n, ratio: { spin: 3, orbit: 1 }, obliquityRad: 0, equinoxTrueAnomalyRad: 0 } }, { samples: 0 });
     for (const key of ["minK", "maxK", "meanK"] as const) {
       expect(Math.abs(sim.summary.temperature[key] / prograde.summary.temperature[key] - 1)).toBeLessThan(1e-8);
+    }
+  });
+});
+
+describe("hour angle and zenith (the geometry the point forcing uses)", () => {
+  it("puts the star at zenith distance |φ − δ| at noon and on the horizon at Berger's sunrise hour angle", () => {
+    // Spherical astronomy (common practice): at H = 0, z = |φ − δ|; cos h₀ = −tan φ tan δ is where cos z = 0.
+    for (const [lat, decl] of [[0, 0], [40, 23.44], [-35, 10], [70, -20]] as const) {
+      expect(cosZenith(lat * deg, decl * deg, 0)).toBeCloseTo(Math.cos((lat - decl) * deg), 14);
+      const h0 = Math.acos(-Math.tan(lat * deg) * Math.tan(decl * deg));
+      expect(Math.abs(cosZenith(lat * deg, decl * deg, h0))).toBeLessThan(1e-14);
+    }
+  });
+
+  it("averages cos z over a day to Berger's daily-mean insolation (Berger 1978, formula from memory)", () => {
+    for (const [lat, decl] of [[45, 23.44], [60, -23.44], [10, 5]] as const) {
+      let sum = 0;
+      const steps = 100_000;
+      for (let j = 0; j < steps; j++) sum += Math.max(0, cosZenith(lat * deg, decl * deg, (2 * Math.PI * (j + 0.5)) / steps - Math.PI));
+      expect(Math.abs((1361 * sum) / steps - dailyMeanInsolation(1361, lat * deg, decl * deg))).toBeLessThan(1e-6);
+    }
+  });
+
+  it("turns the hour angle with the spin and back with the star: H = λ + Ω t − ν at zero obliquity, 0 at the substellar longitude", () => {
+    const spin = { rateRadPerSecond: 3e-6, obliquityRad: 0, equinoxTrueAnomalyRad: 0.7 };
+    expect(hourAngle(spin, 0.3, 1e5, 1.1)).toBeCloseTo(0.3 + 0.3 - 1.1, 12);
+    expect(hourAngle(spin, substellarLongitude(3e-6, 1e5, 1.1), 1e5, 1.1)).toBeCloseTo(0, 12);
+    // With obliquity the star's right ascension runs unevenly (tan α = cos θ tan l), and H follows it.
+    const tilted = { ...spin, obliquityRad: 23.44 * deg };
+    const alpha = (nu: number) => stellarRightAscension(tilted.obliquityRad, nu, tilted.equinoxTrueAnomalyRad);
+    expect(hourAngle(tilted, 0.3, 1e5, 1.1)).toBeCloseTo(0.3 + alpha(0) + 0.3 - alpha(1.1), 12);
+  });
+
+  it("gives a fast-spinning point the orbit-mean insolation of its latitude band (point geometry against Berger's daily means)", () => {
+    // 2000 solar days per orbit: the day is short enough that the point's mean over the orbit is the
+    // mean of Berger's daily means to about the day's share of the declination change.
+    const orbit = nominalCase({ e: 0.2 }).orbit;
+    const n = (2 * Math.PI) / orbit.periodSeconds;
+    for (const [lat, obliquity] of [[40, 23.44], [-65, 40], [0, 120]] as const) {
+      const spin = { rateRadPerSecond: 2001 * n, obliquityRad: obliquity * deg, equinoxTrueAnomalyRad: 0.5 };
+      const point = pointForcing(0.3, SOLAR_LUMINOSITY_W, orbit, lat * deg, 0, spin, 1).meanAbsorbedWPerM2;
+      const band = bandForcing(0.3, SOLAR_LUMINOSITY_W, orbit, lat * deg, obliquity * deg, 0.5).meanAbsorbedWPerM2;
+      expect(Math.abs(point / band - 1)).toBeLessThan(1e-3);
     }
   });
 });

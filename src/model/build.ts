@@ -6,7 +6,7 @@
  * the stiffness and the resolution the statistics need.
  */
 import { STEFAN_BOLTZMANN } from "../constants.js";
-import { requireNumber } from "../errors.js";
+import { CalorbitError, requireNumber } from "../errors.js";
 import type { ThermalCase } from "./thermalCase.js";
 import { DayNightBalance } from "../physics/dayNight.js";
 import { LumpedBalance, radiativeTimeSeconds, type SurfaceProperties } from "../physics/energyBalance.js";
@@ -99,6 +99,11 @@ export function buildThermalModel(thermal: ThermalCase): ThermalModel {
   requireNumber("star.luminosity", thermal.star.luminosityW, (l) => l > 0, "L > 0 W");
   const store: HeatStore = heatStoreOf(thermal);
   const entry = regimeEntry(thermal, store.kind);
+  if (thermal.surface.albedoIncidence && thermal.regime !== "point" && thermal.regime !== "substellar") {
+    throw new CalorbitError("INVALID_ARGUMENT", "an incidence-dependent albedo needs one place on the surface", [
+      { path: "body.albedoIncidence", given: `with regime ${thermal.regime}`, allowed: "regime point (or substellar, where it is A₀)" },
+    ]);
+  }
   const { orbit } = thermal;
   const q = thermal.surface.internalFluxWPerM2;
   const emission = thermal.surface.emissivity * STEFAN_BOLTZMANN;

@@ -132,7 +132,7 @@ export const REGIME_TABLE: Readonly<Record<Regime, RegimeEntry>> = {
       const n = meanMotion(t.orbit);
       const cycle = spinCycle(spin.rateRadPerSecond, n, spin.ratio);
       const location = locationOf(t);
-      const forcing = pointForcing(t.surface.albedo, t.star.luminosityW, t.orbit, location.latitudeRad, location.longitudeRad, spin, cycle.orbits);
+      const forcing = pointForcing(t.surface.albedo, t.star.luminosityW, t.orbit, location.latitudeRad, location.longitudeRad, spin, cycle.orbits, t.surface.albedoIncidence);
       return singleCell(forcing, {
         cycleOrbits: cycle.orbits,
         commensurate: cycle.commensurate,

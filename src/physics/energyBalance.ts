@@ -9,12 +9,19 @@
 import { STEFAN_BOLTZMANN } from "../constants.js";
 import { requireNumber } from "../errors.js";
 import type { OdeSystem } from "../solve/system.js";
+import { checkIncidenceAlbedo, type IncidenceAlbedo } from "./albedo.js";
 import type { Forcing } from "./forcing.js";
 import { meanMotion, type Orbit } from "./orbit.js";
 
 export interface SurfaceProperties {
-  /** Bond albedo A, 0 ≤ A ≤ 1 (enters through the forcing). */
+  /** Bond albedo A, 0 ≤ A ≤ 1 (enters through the forcing); with `albedoIncidence`, the albedo A₀ at normal incidence. */
   albedo: number;
+  /**
+   * Optional rise of the albedo with the stellar incidence angle θ, A(θ) = A₀ + a (θ/45°)³ + b (θ/90°)⁸
+   * (a, b dimensionless; see ./albedo.ts). Only a surface point has one incidence angle: the point
+   * and substellar (θ = 0) regimes take it.
+   */
+  albedoIncidence?: IncidenceAlbedo;
   /** Thermal emissivity ε, 0 < ε ≤ 1. */
   emissivity: number;
   /** Areal heat capacity C, J m⁻² K⁻¹ (> 0). */
@@ -25,6 +32,7 @@ export interface SurfaceProperties {
 
 export function checkSurface(s: SurfaceProperties): void {
   requireNumber("body.albedo", s.albedo, (a) => a >= 0 && a <= 1, "0 ≤ A ≤ 1");
+  if (s.albedoIncidence) checkIncidenceAlbedo(s.albedo, s.albedoIncidence);
   requireNumber("body.emissivity", s.emissivity, (e) => e > 0 && e <= 1, "0 < ε ≤ 1");
   requireNumber("body.heatCapacity", s.heatCapacityJPerM2K, (c) => c > 0, "C > 0 J m⁻² K⁻¹");
   requireNumber("body.internalFlux", s.internalFluxWPerM2, (q) => q >= 0, "q ≥ 0 W m⁻²");

@@ -4,7 +4,17 @@
  * equation: r = a(1 − e cos E) is explicit, and so are the time and the true anomaly.
  */
 import { GEOMETRY_FACTOR, stellarFlux, type LumpedRegime } from "./flux.js";
-import { dailyMeanInsolation, solarDaySeconds, stellarDeclination, type SpinGeometry } from "./geometry.js";
+import { albedoAtIncidence, checkIncidenceAlbedo, type IncidenceAlbedo } from "./albedo.js";
+import {
+  cosZenithFrom,
+  dailyMeanInsolation,
+  hourAngleFrom,
+  rightAscensionAt,
+  sinDeclinationAt,
+  solarDaySeconds,
+  stellarDeclination,
+  type SpinGeometry,
+} from "./geometry.js";
 import { meanMotion, type Orbit } from "./orbit.js";
 
 export interface Forcing {
@@ -76,6 +86,8 @@ export function bandForcing(
 /**
  * One point on a spinning body: (1 − A) S cos z by day, nothing by night. The hour angle comes
  * from the spin angle Ω (t − t_p) with t − t_p = (E − e sin E)/n, so it too is explicit in E.
+ * The geometry is ./geometry.ts's (declination, right ascension, hour angle, cos z), fed the sines
+ * and cosines this loop already has. With `incidenceAlbedo` the albedo is A(z) of ./albedo.ts.
  */
 export function pointForcing(
   albedo: number,
@@ -85,30 +97,47 @@ export function pointForcing(
   longitudeRad: number,
   spin: SpinGeometry,
   cycleOrbits: number,
+  incidenceAlbedo?: IncidenceAlbedo,
 ): Forcing {
   const e = orbit.eccentricity;
   const n = meanMotion(orbit);
-  const absorbedAtA = (1 - albedo) * stellarFlux(luminosityW, orbit.semiMajorAxisM);
+  const fluxAtA = stellarFlux(luminosityW, orbit.semiMajorAxisM);
+  const absorbedAtA = (1 - albedo) * fluxAtA;
   const trueAnomalyFactor = Math.sqrt((1 + e) / (1 - e));
   const sinTheta = Math.sin(spin.obliquityRad);
   const cosTheta = Math.cos(spin.obliquityRad);
   const nuEq = spin.equinoxTrueAnomalyRad;
   const sinLat = Math.sin(latitudeRad);
   const cosLat = Math.cos(latitudeRad);
-  const alphaAtPeriastron = Math.atan2(cosTheta * Math.sin(-nuEq), Math.cos(-nuEq));
+  const alphaAtPeriastron = rightAscensionAt(cosTheta, Math.sin(-nuEq), Math.cos(-nuEq));
   const spinPerAnomaly = spin.rateRadPerSecond / n;
-  const absorbedAt = (E: number): number => {
-    const w = 1 - e * Math.cos(E);
+  const cosZenithAt = (E: number): number => {
     // ν enters only through sines and cosines, so its value modulo 2π is enough.
     const nu = 2 * Math.atan(trueAnomalyFactor * Math.tan(E / 2));
     const l = nu - nuEq;
-    const sinDecl = sinTheta * Math.sin(l);
+    const sinL = Math.sin(l);
+    const sinDecl = sinDeclinationAt(sinTheta, sinL);
     const cosDecl = Math.sqrt(1 - sinDecl * sinDecl);
-    const alpha = Math.atan2(cosTheta * Math.sin(l), Math.cos(l));
-    const h = longitudeRad + alphaAtPeriastron + spinPerAnomaly * (E - e * Math.sin(E)) - alpha;
-    const mu = sinLat * sinDecl + cosLat * cosDecl * Math.cos(h);
-    return mu > 0 ? (absorbedAtA / (w * w)) * mu : 0;
+    const h = hourAngleFrom(longitudeRad, alphaAtPeriastron, spinPerAnomaly * (E - e * Math.sin(E)), rightAscensionAt(cosTheta, sinL, Math.cos(l)));
+    return cosZenithFrom(sinLat, cosLat, sinDecl, cosDecl, h);
   };
+  let absorbedAt: (E: number) => number;
+  if (incidenceAlbedo === undefined) {
+    absorbedAt = (E) => {
+      const mu = cosZenithAt(E);
+      if (!(mu > 0)) return 0;
+      const w = 1 - e * Math.cos(E);
+      return (absorbedAtA / (w * w)) * mu;
+    };
+  } else {
+    checkIncidenceAlbedo(albedo, incidenceAlbedo);
+    absorbedAt = (E) => {
+      const mu = cosZenithAt(E);
+      if (!(mu > 0)) return 0;
+      const w = 1 - e * Math.cos(E);
+      return (fluxAtA / (w * w)) * mu * (1 - albedoAtIncidence(albedo, incidenceAlbedo, Math.acos(Math.min(1, mu))));
+    };
+  }
   const solarDay = solarDaySeconds(spin.rateRadPerSecond, n, spin.obliquityRad);
   const daysPerOrbit = solarDay === null ? 0 : orbit.periodSeconds / solarDay;
   const points = Math.min(1 << 20, Math.max(4096, Math.ceil(64 * daysPerOrbit * cycleOrbits)));

@@ -19,15 +19,30 @@ export interface SpinGeometry {
   equinoxTrueAnomalyRad: number;
 }
 
-/** Declination δ of the star, rad: sin δ = sin θ sin(ν − ν_eq) (spherical astronomy, common practice). */
+/*
+ * Each formula below is written once, in a form that takes sines and cosines already at hand (what a
+ * forcing evaluated millions of times per run needs), with an angle-taking form beside it.
+ */
+
+/** sin δ = sin θ sin l: the sine of the star's declination at longitude l = ν − ν_eq from the equinox (spherical astronomy, common practice). */
+export function sinDeclinationAt(sinObliquity: number, sinStarLongitude: number): number {
+  return sinObliquity * sinStarLongitude;
+}
+
+/** Declination δ of the star, rad: sin δ = sin θ sin(ν − ν_eq). */
 export function stellarDeclination(obliquityRad: number, trueAnomalyRad: number, equinoxTrueAnomalyRad: number): number {
-  return Math.asin(Math.sin(obliquityRad) * Math.sin(trueAnomalyRad - equinoxTrueAnomalyRad));
+  return Math.asin(sinDeclinationAt(Math.sin(obliquityRad), Math.sin(trueAnomalyRad - equinoxTrueAnomalyRad)));
+}
+
+/** Right ascension α of the star, rad, from cos θ and the sine and cosine of its longitude l: tan α = cos θ tan l. */
+export function rightAscensionAt(cosObliquity: number, sinStarLongitude: number, cosStarLongitude: number): number {
+  return Math.atan2(cosObliquity * sinStarLongitude, cosStarLongitude);
 }
 
 /** Right ascension α of the star in the body's equatorial frame, rad: tan α = cos θ tan l. */
 export function stellarRightAscension(obliquityRad: number, trueAnomalyRad: number, equinoxTrueAnomalyRad: number): number {
   const l = trueAnomalyRad - equinoxTrueAnomalyRad;
-  return Math.atan2(Math.cos(obliquityRad) * Math.sin(l), Math.cos(l));
+  return rightAscensionAt(Math.cos(obliquityRad), Math.sin(l), Math.cos(l));
 }
 
 /**
@@ -52,9 +67,14 @@ export function dailyMeanInsolationOf(fluxWPerM2: number, sinLatitude: number, c
   return Math.max(0, (fluxWPerM2 / Math.PI) * (h0 * sinProduct + cosProduct * Math.sin(h0)));
 }
 
+/** cos z = sin φ sin δ + cos φ cos δ cos H from the sines and cosines of φ and δ (common practice); negative below the horizon. */
+export function cosZenithFrom(sinLatitude: number, cosLatitude: number, sinDeclination: number, cosDeclination: number, hourAngleRad: number): number {
+  return sinLatitude * sinDeclination + cosLatitude * cosDeclination * Math.cos(hourAngleRad);
+}
+
 /** cos z = sin φ sin δ + cos φ cos δ cos H (common practice); negative below the horizon. */
 export function cosZenith(latitudeRad: number, declinationRad: number, hourAngleRad: number): number {
-  return Math.sin(latitudeRad) * Math.sin(declinationRad) + Math.cos(latitudeRad) * Math.cos(declinationRad) * Math.cos(hourAngleRad);
+  return cosZenithFrom(Math.sin(latitudeRad), Math.cos(latitudeRad), Math.sin(declinationRad), Math.cos(declinationRad), hourAngleRad);
 }
 
 /**
@@ -85,7 +105,12 @@ export function hourAngle(
 ): number {
   const alphaAtPeriastron = stellarRightAscension(spin.obliquityRad, 0, spin.equinoxTrueAnomalyRad);
   const alpha = stellarRightAscension(spin.obliquityRad, trueAnomalyRad, spin.equinoxTrueAnomalyRad);
-  return longitudeRad + alphaAtPeriastron + spin.rateRadPerSecond * secondsSincePeriastron - alpha;
+  return hourAngleFrom(longitudeRad, alphaAtPeriastron, spin.rateRadPerSecond * secondsSincePeriastron, alpha);
+}
+
+/** H = λ + α★(0) + φ − α★: the hour angle from the spin angle φ = Ω (t − t_p) turned since periastron and the star's right ascensions then and now, rad. */
+export function hourAngleFrom(longitudeRad: number, rightAscensionAtPeriastronRad: number, spinAngleRad: number, rightAscensionRad: number): number {
+  return longitudeRad + rightAscensionAtPeriastronRad + spinAngleRad - rightAscensionRad;
 }
 
 /** Sub-stellar longitude (rad, wrapped to (−π, π]) at zero obliquity: the point where H = 0. */

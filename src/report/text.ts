@@ -38,7 +38,7 @@ export function describeScenario(resolved: ResolvedScenario): string[] {
       const p = c.properties;
       const heat = p.specificHeatPolynomial.length === 1 ? `c = ${sig(p.specificHeatPolynomial[0]!)} J kg⁻¹ K⁻¹` : "c(T) polynomial";
       lines.push(
-        `  body      A = ${surface.albedo}, ε = ${surface.emissivity}; a conduction column, interior flux ${sig(c.interiorFluxWPerM2)} W m⁻²`,
+        `  body      A = ${surface.albedo}${surface.albedoIncidence ? ` at normal incidence, A(θ) = A + ${surface.albedoIncidence.a} (θ/45°)³ + ${surface.albedoIncidence.b} (θ/90°)⁸` : ""}, ε = ${surface.emissivity}; a conduction column, interior flux ${sig(c.interiorFluxWPerM2)} W m⁻²`,
         `  column    ρ ${sig(p.densitySurface)} → ${sig(p.densityDeep)} kg m⁻³, k ${sig(p.conductivitySurface)} → ${sig(p.conductivityDeep)} W m⁻¹ K⁻¹${Number.isFinite(p.eFoldingDepthM) ? ` (e-folding ${sig(p.eFoldingDepthM)} m)` : ""}${p.radiativeChi ? `, χ = ${p.radiativeChi}` : ""}, ${heat}`,
       );
       break;
@@ -50,7 +50,7 @@ export function describeScenario(resolved: ResolvedScenario): string[] {
           ? ` (${origin.material}, ${sig(origin.thicknessM)} m: ρ = ${origin.densityKgPerM3} kg m⁻³, c = ${origin.specificHeatJPerKgK} J kg⁻¹ K⁻¹)`
           : "";
       lines.push(
-        `  body      A = ${surface.albedo}, ε = ${surface.emissivity}, C = ${sig(store.heatCapacityJPerM2K)} J m⁻² K⁻¹${cText}, q = ${sig(surface.internalFluxWPerM2)} W m⁻²`,
+        `  body      A = ${surface.albedo}${surface.albedoIncidence ? ` at normal incidence, A(θ) = A + ${surface.albedoIncidence.a} (θ/45°)³ + ${surface.albedoIncidence.b} (θ/90°)⁸` : ""}, ε = ${surface.emissivity}, C = ${sig(store.heatCapacityJPerM2K)} J m⁻² K⁻¹${cText}, q = ${sig(surface.internalFluxWPerM2)} W m⁻²`,
       );
       break;
     }

@@ -193,6 +193,15 @@ function fromParsed(s: ParsedScenario, raw: unknown): ResolvedScenario {
     const periastronM = s.orbit.semiMajorAxis * (1 - s.orbit.eccentricity);
     problem("orbit.semiMajorAxis", `an orbit whose periastron a(1 − e) clears the star's radius ${s.star.radius.toPrecision(4)} m (here a(1 − e) = ${periastronM.toPrecision(4)} m)`);
   }
+  const incidence = s.body.albedoIncidence;
+  if (incidence !== undefined) {
+    const regime = s.regime ?? "global";
+    if (regime !== "point" && regime !== "substellar") {
+      problem("body.albedoIncidence", `regime point (or substellar); regime ${regime} has no single incidence angle`);
+    } else if (!(s.body.albedo + 8 * incidence.a + incidence.b <= 1)) {
+      problem("body.albedoIncidence", `a and b with albedo + 8a + b ≤ 1 (the albedo at 90° incidence; here ${s.body.albedo + 8 * incidence.a + incidence.b})`);
+    }
+  }
   if (s.thresholds && !(s.thresholds[0] < s.thresholds[1])) {
     problem("thresholds", "a [low, high] pair with low < high");
   }
@@ -220,6 +229,7 @@ function fromParsed(s: ParsedScenario, raw: unknown): ResolvedScenario {
       emissivity: s.body.emissivity ?? 1,
       heatCapacityJPerM2K: heatCapacity,
       internalFluxWPerM2: s.body.internalFlux ?? 0,
+      ...(incidence !== undefined ? { albedoIncidence: { a: incidence.a, b: incidence.b } } : {}),
     },
     // A zonal case keeps "global" here (the globe as a whole); its solver reads `climate`.
     regime: s.regime === undefined || s.regime === "zonal" ? "global" : s.regime,

@@ -35,7 +35,7 @@ async function insolationCommand(scenarioPath: string | undefined, flags: Insola
   ]);
   const { resolved } = loadScenario(scenarioPath);
   const csv = insolationCsv(resolved, insolationMap(resolved.thermal, latitudes, phases));
-  const slow = slowRotatorWarning(resolved.thermal, solarDaySeconds);
+  const slow = slowRotatorWarning(resolved.thermal, (spin, n) => solarDaySeconds(spin, n, resolved.thermal.spin?.obliquityRad ?? 0));
   if (slow !== undefined) warn(slow);
   if (flags.out !== undefined) {
     writeFileAtomic(flags.out, csv);
