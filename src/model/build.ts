@@ -10,6 +10,7 @@ import { CalorbitError, requireNumber } from "../errors.js";
 import type { ThermalCase } from "./thermalCase.js";
 import { DayNightBalance } from "../physics/dayNight.js";
 import { LumpedBalance, radiativeTimeSeconds, type SurfaceProperties } from "../physics/energyBalance.js";
+import { equilibriumTemperatureFrom } from "../physics/flux.js";
 import { checkOrbit, meanMotion } from "../physics/orbit.js";
 import type { OdeSystem } from "../solve/system.js";
 import type { Exchange } from "./exchange.js";
@@ -115,7 +116,7 @@ export function buildThermalModel(thermal: ThermalCase): ThermalModel {
   const exchange = entry.exchange(thermal);
   const cells = surface.cells;
   // ε is validated by the balances' constructors (checkSurface) before teqOf is first used.
-  const teqOf = (absorbed: number): number => Math.sqrt(Math.sqrt((absorbed + q) / emission));
+  const teqOf = (absorbed: number): number => equilibriumTemperatureFrom(absorbed + q, emission);
   const solarDaysPerOrbit = surface.solarDaySeconds ? orbit.periodSeconds / surface.solarDaySeconds : 0;
   const scaleK = teqOf(cells[0]!.forcing.meanAbsorbedWPerM2);
   const common: ModelCommon = {

@@ -16,7 +16,7 @@ import { STEFAN_BOLTZMANN } from "../constants.js";
 import { CalorbitError } from "../errors.js";
 import type { OdeSystem } from "../solve/system.js";
 import { checkSurface, type SurfaceProperties } from "./energyBalance.js";
-import { stellarFlux } from "./flux.js";
+import { absorbedFlux, equilibriumTemperatureFrom, inverseSquareAt, stellarFlux } from "./flux.js";
 import { meanMotion, type Orbit } from "./orbit.js";
 
 export const DAYSIDE_WEIGHTINGS = ["uniform", "flux"] as const;
@@ -54,7 +54,7 @@ export class DayNightBalance implements OdeSystem {
     this.emission = surface.emissivity * STEFAN_BOLTZMANN;
     this.inverseC = 1 / surface.heatCapacityJPerM2K;
     this.q = surface.internalFluxWPerM2;
-    this.absorbedAtA = (1 - surface.albedo) * stellarFlux(luminosityW, orbit.semiMajorAxisM);
+    this.absorbedAtA = absorbedFlux(surface.albedo, stellarFlux(luminosityW, orbit.semiMajorAxisM));
     this.daysideFactor = DAYSIDE_FACTOR[exchange.weighting];
     this.lossFactor = 4 * this.daysideFactor - 1;
   }
@@ -65,8 +65,7 @@ export class DayNightBalance implements OdeSystem {
 
   /** (1 − A) S at eccentric anomaly E, W m⁻². */
   absorbable(E: number): number {
-    const w = 1 - this.e * Math.cos(E);
-    return this.absorbedAtA / (w * w);
+    return this.absorbedAtA * inverseSquareAt(this.e, E);
   }
 
   /** Stellar power absorbed per unit area of each hemisphere (before any exchange), W m⁻². */
@@ -113,8 +112,8 @@ export class DayNightBalance implements OdeSystem {
     if (k > 0) {
       exchangeEquilibrium(dayInput, nightInput, this.emission, this.lossFactor, k, out);
     } else {
-      out[0] = Math.sqrt(Math.sqrt(Math.max(dayInput, 0) / this.emission));
-      out[1] = Math.sqrt(Math.sqrt(Math.max(nightInput, 0) / this.emission));
+      out[0] = equilibriumTemperatureFrom(dayInput, this.emission);
+      out[1] = equilibriumTemperatureFrom(nightInput, this.emission);
     }
   }
 }
@@ -138,7 +137,7 @@ export function exchangeEquilibrium(
   out: Float64Array,
   maxIterations = EXCHANGE_EQUILIBRIUM_MAX_ITERATIONS,
 ): void {
-  const shared = Math.sqrt(Math.sqrt((dayInput + lossFactor * nightInput) / (1 + lossFactor) / emission));
+  const shared = equilibriumTemperatureFrom((dayInput + lossFactor * nightInput) / (1 + lossFactor), emission);
   let td = shared;
   let tn = shared;
   let dd = NaN;

@@ -27,13 +27,35 @@ export function stellarFlux(luminosityW: number, distanceM: number): number {
 }
 
 /**
+ * Absorbed stellar flux f (1 − A) S, W m⁻² per unit emitting area, for Bond albedo A, geometry
+ * factor f (above) and stellar flux S (common practice). Every forcing builds on this.
+ */
+export function absorbedFlux(albedo: number, stellarFluxWPerM2: number, geometryFactor = 1): number {
+  return geometryFactor * (1 - albedo) * stellarFluxWPerM2;
+}
+
+/** The inverse-square factor (a/r)² = 1/(1 − e cos E)² at eccentric anomaly E (r = a(1 − e cos E)). */
+export function inverseSquareAt(eccentricity: number, eccentricAnomalyRad: number): number {
+  const w = 1 - eccentricity * Math.cos(eccentricAnomalyRad);
+  return 1 / (w * w);
+}
+
+/**
+ * T = (F / (εσ))^(1/4), K, from the emission coefficient εσ (W m⁻² K⁻⁴) already formed: the
+ * unguarded form for loops. A negative F (a numerical undershoot) counts as zero.
+ */
+export function equilibriumTemperatureFrom(absorbedWPerM2: number, emissionCoefficient: number): number {
+  return Math.sqrt(Math.sqrt(Math.max(absorbedWPerM2, 0) / emissionCoefficient));
+}
+
+/**
  * Radiative equilibrium temperature of a surface absorbing `absorbedWPerM2` and emitting with
- * emissivity ε: T = (F / (εσ))^(1/4), K. Zero when nothing is absorbed.
+ * emissivity ε: T = (F / (εσ))^(1/4), K (Stefan–Boltzmann law). Zero when nothing is absorbed.
  */
 export function equilibriumTemperature(absorbedWPerM2: number, emissivity: number): number {
   requireNumber("absorbedFlux", absorbedWPerM2, (f) => f >= 0, "F ≥ 0 W m⁻²");
   requireNumber("emissivity", emissivity, (e) => e > 0 && e <= 1, "0 < ε ≤ 1");
-  return Math.sqrt(Math.sqrt(absorbedWPerM2 / (emissivity * STEFAN_BOLTZMANN)));
+  return equilibriumTemperatureFrom(absorbedWPerM2, emissivity * STEFAN_BOLTZMANN);
 }
 
 /** Wavelength of peak spectral radiance per unit wavelength, λ = b/T, m (Wien's law, CODATA 2018 b). */

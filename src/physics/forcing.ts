@@ -3,7 +3,7 @@
  * anomaly E. Every forcing is written in E so the ODE right-hand side never solves Kepler's
  * equation: r = a(1 − e cos E) is explicit, and so are the time and the true anomaly.
  */
-import { GEOMETRY_FACTOR, stellarFlux, type LumpedRegime } from "./flux.js";
+import { absorbedFlux, GEOMETRY_FACTOR, inverseSquareAt, stellarFlux, type LumpedRegime } from "./flux.js";
 import { albedoAtIncidence, checkIncidenceAlbedo, type IncidenceAlbedo } from "./albedo.js";
 import {
   cosZenithFrom,
@@ -34,12 +34,11 @@ export function lumpedForcing(
   luminosityW: number,
   orbit: Orbit,
 ): Forcing {
-  const atSemiMajorAxis = GEOMETRY_FACTOR[regime] * (1 - albedo) * stellarFlux(luminosityW, orbit.semiMajorAxisM);
+  const atSemiMajorAxis = absorbedFlux(albedo, stellarFlux(luminosityW, orbit.semiMajorAxisM), GEOMETRY_FACTOR[regime]);
   const e = orbit.eccentricity;
   return {
     absorbedAt(eccentricAnomalyRad: number): number {
-      const w = 1 - e * Math.cos(eccentricAnomalyRad);
-      return atSemiMajorAxis / (w * w);
+      return atSemiMajorAxis * inverseSquareAt(e, eccentricAnomalyRad);
     },
     meanAbsorbedWPerM2: atSemiMajorAxis / Math.sqrt(1 - e * e),
   };
@@ -72,13 +71,12 @@ export function bandForcing(
   equinoxTrueAnomalyRad: number,
 ): Forcing {
   const e = orbit.eccentricity;
-  const absorbedAtA = (1 - albedo) * stellarFlux(luminosityW, orbit.semiMajorAxisM);
+  const absorbedAtA = absorbedFlux(albedo, stellarFlux(luminosityW, orbit.semiMajorAxisM));
   const trueAnomalyFactor = Math.sqrt((1 + e) / (1 - e));
   const absorbedAt = (E: number): number => {
-    const w = 1 - e * Math.cos(E);
     const nu = 2 * Math.atan(trueAnomalyFactor * Math.tan(E / 2));
     const declination = stellarDeclination(obliquityRad, nu, equinoxTrueAnomalyRad);
-    return dailyMeanInsolation(absorbedAtA / (w * w), latitudeRad, declination);
+    return dailyMeanInsolation(absorbedAtA * inverseSquareAt(e, E), latitudeRad, declination);
   };
   return { absorbedAt, meanAbsorbedWPerM2: orbitMeanByQuadrature(absorbedAt, e, 1, 2048) };
 }
@@ -102,7 +100,7 @@ export function pointForcing(
   const e = orbit.eccentricity;
   const n = meanMotion(orbit);
   const fluxAtA = stellarFlux(luminosityW, orbit.semiMajorAxisM);
-  const absorbedAtA = (1 - albedo) * fluxAtA;
+  const absorbedAtA = absorbedFlux(albedo, fluxAtA);
   const trueAnomalyFactor = Math.sqrt((1 + e) / (1 - e));
   const sinTheta = Math.sin(spin.obliquityRad);
   const cosTheta = Math.cos(spin.obliquityRad);
@@ -125,17 +123,13 @@ export function pointForcing(
   if (incidenceAlbedo === undefined) {
     absorbedAt = (E) => {
       const mu = cosZenithAt(E);
-      if (!(mu > 0)) return 0;
-      const w = 1 - e * Math.cos(E);
-      return (absorbedAtA / (w * w)) * mu;
+      return mu > 0 ? absorbedAtA * inverseSquareAt(e, E) * mu : 0;
     };
   } else {
     checkIncidenceAlbedo(albedo, incidenceAlbedo);
     absorbedAt = (E) => {
       const mu = cosZenithAt(E);
-      if (!(mu > 0)) return 0;
-      const w = 1 - e * Math.cos(E);
-      return (fluxAtA / (w * w)) * mu * (1 - albedoAtIncidence(albedo, incidenceAlbedo, Math.acos(Math.min(1, mu))));
+      return mu > 0 ? absorbedFlux(albedoAtIncidence(albedo, incidenceAlbedo, Math.acos(Math.min(1, mu))), fluxAtA * inverseSquareAt(e, E)) * mu : 0;
     };
   }
   const solarDay = solarDaySeconds(spin.rateRadPerSecond, n, spin.obliquityRad);

@@ -5,9 +5,9 @@
  */
 import { CalorbitError, requireNumber } from "../errors.js";
 import type { ColumnSpec, ThermalCase } from "../model/thermalCase.js";
-import { buildColumnGrid, skinDepthM, specificHeatAt } from "../physics/column.js";
+import { buildColumnGrid, skinDepthM, specificHeatAt, thermalInertia } from "../physics/column.js";
 import { STEFAN_BOLTZMANN } from "../constants.js";
-import { wienPeakWavelengthM } from "../physics/flux.js";
+import { equilibriumTemperatureFrom, wienPeakWavelengthM } from "../physics/flux.js";
 import { eccentricAnomaly } from "../physics/kepler.js";
 import { anomaliesUniformInTime, orbitColumns } from "../analysis/orbitSampling.js";
 import { firstPeriastronSeconds, timeAtEccentric } from "../physics/orbit.js";
@@ -126,7 +126,7 @@ export function simulateColumn(thermal: ThermalCase, column: ColumnSpec, options
   const times = Float64Array.from(result.stepE, (E) => timeAtEccentric(orbit, E));
   const q = column.interiorFluxWPerM2;
   const emission = eps * STEFAN_BOLTZMANN;
-  const teq = Float64Array.from(result.stepE, (E) => Math.sqrt(Math.sqrt((model.absorbedAt(E, 0) + q) / emission)));
+  const teq = Float64Array.from(result.stepE, (E) => equilibriumTemperatureFrom(model.absorbedAt(E, 0) + q, emission));
   const stats = (values: Float64Array): { s: TemperatureStats; argMax: number } => {
     let lo = Infinity;
     let hi = -Infinity;
@@ -167,7 +167,7 @@ export function simulateColumn(thermal: ThermalCase, column: ColumnSpec, options
     energyBalanceResidual: result.energyBalanceResidual,
     wienPeakAtMinM: wienPeakWavelengthM(surface.s.minK),
     wienPeakAtMaxM: wienPeakWavelengthM(surface.s.maxK),
-    thermalInertiaSurface: Math.sqrt(p.conductivitySurface * p.densitySurface * cRef),
+    thermalInertiaSurface: thermalInertia(p.conductivitySurface, p.densitySurface, cRef),
     skinDepths: { diurnalM, orbitalM },
     depthProfile,
   };
