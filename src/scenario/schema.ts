@@ -113,15 +113,6 @@ export const bodySchema = z
   .strictObject({
     name: z.string().optional().describe("Name of the body (free text)"),
     albedo: boundedNumber("Bond albedo, 0 ≤ A ≤ 1", (a) => a >= 0 && a <= 1, "a number with 0 ≤ A ≤ 1"),
-    albedoIncidence: z
-      .strictObject({
-        a: boundedNumber("Cubic rise a of A(θ), dimensionless, ≥ 0 (0.06 for the Moon)", (v) => v >= 0, "a number ≥ 0"),
-        b: boundedNumber("Eighth-power rise b of A(θ), dimensionless, ≥ 0 (0.25 for the Moon)", (v) => v >= 0, "a number ≥ 0"),
-      })
-      .optional()
-      .describe(
-        "point (and substellar) regimes: the albedo rises toward grazing light, A(θ) = A + a (θ/45°)³ + b (θ/90°)⁸ with θ the star's zenith angle and A = body.albedo at normal incidence (Hayne et al. 2017, JGR Planets 122, 2371); a, b dimensionless with A + 8a + b ≤ 1",
-      ),
     emissivity: boundedNumber("Thermal emissivity, 0 < ε ≤ 1; default 1", (e) => e > 0 && e <= 1, "a number with 0 < ε ≤ 1").optional(),
     heatCapacity: quantity("arealHeatCapacity", "Areal heat capacity C", positive("J/m2/K")).optional(),
     layer: layerSchema.optional(),
@@ -142,6 +133,15 @@ export const bodySchema = z
       .enum(DAYSIDE_WEIGHTINGS, { error: `one of ${DAYSIDE_WEIGHTINGS.join(", ")}` })
       .optional()
       .describe("daynight: uniform dayside (f = 1/2, conserves energy) or flux-weighted (f = 2/3, Cowan & Agol 2011); default uniform"),
+    albedoIncidence: z
+      .strictObject({
+        a: boundedNumber("Cubic rise a of A(θ), dimensionless, ≥ 0 (0.06 for the Moon)", (v) => v >= 0, "a number ≥ 0"),
+        b: boundedNumber("Eighth-power rise b of A(θ), dimensionless, ≥ 0 (0.25 for the Moon)", (v) => v >= 0, "a number ≥ 0"),
+      })
+      .optional()
+      .describe(
+        "point (and substellar) regimes: the albedo rises toward grazing light, A(θ) = A + a (θ/45°)³ + b (θ/90°)⁸ with θ the star's zenith angle and A = body.albedo at normal incidence (Hayne et al. 2017, JGR Planets 122, 2371); a, b dimensionless with A + 8a + b ≤ 1",
+      ),
   })
   .describe("The body's surface: albedo, emissivity, heat capacity (direct, or a layer of a material)");
 
