@@ -25,6 +25,7 @@ import { simulateColumn } from "../src/run/simulateColumn.js";
 import { AU, bandCase, dayNightCase, meanFluxEquilibriumK, pointCase, slabCase, SOLAR_LUMINOSITY } from "./cases.js";
 import { climateBenchLines } from "./climate.js";
 import { columnCase, columnSpec } from "./columnCase.js";
+import { fitBenchmarks } from "./fitRun.js";
 import { mapFigures } from "./mapBench.js";
 
 const quick = process.argv.includes("--quick");
@@ -322,6 +323,39 @@ for (const [days, targetS] of [
 // 10. The zonal climate's figures (bench/climate.ts, the climate side): full mode only, its sweep takes minutes.
 if (quick) console.log("zonal climate: skipped in quick mode (node dist/bench/climate.js runs it alone)");
 else for (const line of climateBenchLines()) console.log(line);
+
+// 11. `calorbit fit` (bench/fitRun.ts, the fit side): a two-parameter slab fit and a posterior.
+await fitBenchmarks({ quick }); // prints its own lines
+
+// 12. Sweep files: Parquet against CSV for the same sweep (bench/sweepFormats.ts, the sweep side).
+{
+  const cases = quick ? 20_000 : 100_000;
+  const script = fileURLToPath(new URL("./sweepFormats.js", import.meta.url));
+  const r = spawnSync(process.execPath, [script, String(cases), "2"], { encoding: "utf8", stdio: ["ignore", "pipe", "inherit"] });
+  const last = (r.stdout ?? "").trim().split("\n").at(-1) ?? "";
+  interface FormatsResult {
+    timeRatio: number;
+    sizeRatio: number;
+    csvSeconds: number;
+    parquetSeconds: number;
+    csvBytes: number;
+    parquetBytes: number;
+  }
+  let result: FormatsResult | null;
+  try {
+    result = JSON.parse(last) as FormatsResult;
+  } catch {
+    result = null;
+  }
+  if (r.status !== 0 || !result || !(result.csvBytes > 0 && result.parquetBytes > 0)) {
+    failures.push(`sweep formats benchmark failed (exit ${r.status})`);
+    console.log(`WRONG sweep formats benchmark failed (exit ${r.status})`);
+  } else {
+    const detail = `${cases} cases on 2 workers; CSV ${result.csvSeconds.toFixed(1)} s and ${(result.csvBytes / 1e6).toFixed(1)} MB, Parquet ${result.parquetSeconds.toFixed(1)} s and ${(result.parquetBytes / 1e6).toFixed(1)} MB`;
+    figure("sweep Parquet time against CSV", fmt(result.timeRatio), "x", "<= 1.2x", result.timeRatio <= 1.2, detail);
+    figure("sweep Parquet size against CSV", fmt(result.sizeRatio), "x", "<= 0.333x", result.sizeRatio <= 1 / 3, detail);
+  }
+}
 
 console.log(`benchmark took ${((performance.now() - startedAt) / 1000).toFixed(0)} s; load average ${loadavg().map((x) => x.toFixed(1)).join(" ")} at the end`);
 if (failures.length > 0) {

@@ -27,6 +27,8 @@ const dir = mkdtempSync(join(tmpdir(), "calorbit-bench-formats-"));
 
 async function timed(format: SweepFormat): Promise<{ seconds: number; bytes: number }> {
   const out = join(dir, `sweep.${format}`);
+  // A fresh file each round: an existing complete file would be resumed, and time nothing.
+  rmSync(out, { force: true });
   const started = performance.now();
   await runSweep({ definition: { scenario, design: { axes }, relativeTolerance: 1e-8, format }, shard: { index: 1, count: 1 }, out, workers, quiet: true });
   return { seconds: (performance.now() - started) / 1000, bytes: statSync(out).size };

@@ -5,6 +5,7 @@ import type { ResolvedScenario } from "../scenario/resolve.js";
 import type { TemperatureStats } from "../analysis/summarise.js";
 import type { Simulation } from "../run/simulate.js";
 import { VERSION } from "../version.js";
+import { cycleWords, lagWords } from "./wording.js";
 import { ZERO_CELSIUS_K } from "../constants.js";
 import { au, days, degrees, duration, fixed, sig, solarLuminosities, solarMasses } from "./format.js";
 
@@ -111,17 +112,14 @@ export function summaryText(resolved: ResolvedScenario, sim: Simulation, options
     lines.push(`  solar day   ${s.solarDaySeconds === null ? "none (synchronous spin)" : `${duration(s.solarDaySeconds)} (${sig(s.solarDaySeconds / P, 4)} orbits)`}`);
   }
   if (s.cycleSeconds > P * 1.000001) lines.push(`  cycle       ${sig(s.cycleSeconds / P, 3)} orbits (the spin–orbit resonance repeats)`);
-  lines.push(
-    s.lagSeconds === null
-      ? "  lag of maximum after periastron   none (circular orbit)"
-      : `  lag of maximum after periastron   ${duration(s.lagSeconds)} (${fixed(s.lagSeconds / P, 3)} of the orbit)`,
-  );
+  // A lag that would print as 0.000, a flat temperature called "circular", a multi-orbit cycle called "the orbit": words that say what the number is.
+  lines.push(`  lag of maximum after periastron   ${lagWords(s, resolved.thermal.orbit.eccentricity)}`);
   lines.push(`  damping ratio (T swing / Teq swing)   ${fixed(s.dampingRatio, 4)}${s.day ? " (dayside)" : ""}`);
   lines.push(`  radiative time τ = C/(4εσT³)   ${duration(s.radiativeTimeSeconds)}, τ/P = ${sig(s.tauOverPeriod)}`);
   if (s.timeInRange) {
     const w = s.timeInRange;
     lines.push(
-      `  time in ${fixed(w.lowK, 2)}–${fixed(w.highK, 2)} K${options.celsius ? ` (${fixed(w.lowK - ZERO_CELSIUS_K, 2)}–${fixed(w.highK - ZERO_CELSIUS_K, 2)} °C)` : ""}   ${fixed(100 * w.fraction, 2)} % of the orbit (${duration(w.seconds)})`,
+      `  time in ${fixed(w.lowK, 2)}–${fixed(w.highK, 2)} K${options.celsius ? ` (${fixed(w.lowK - ZERO_CELSIUS_K, 2)}–${fixed(w.highK - ZERO_CELSIUS_K, 2)} °C)` : ""}   ${fixed(100 * w.fraction, 2)} % ${cycleWords(P, s.cycleSeconds)} (${duration(w.seconds)})`,
     );
   }
   lines.push(
