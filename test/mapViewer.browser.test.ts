@@ -3,24 +3,18 @@
  * surface map of the invented demo, and a live recomputation when the observer moves.
  * Outside CI a missing chromium skips this file loudly; in CI it fails.
  */
-import { spawn, type ChildProcess } from "node:child_process";
-import { existsSync, readFileSync } from "node:fs";
+import type { ChildProcess } from "node:child_process";
+import { readFileSync } from "node:fs";
 import { join } from "node:path";
-import { chromium, type Browser, type Page } from "playwright-core";
+import type { Browser, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { observeMap } from "../src/run/observeMap.js";
 import { resolveScenario } from "../src/scenario/resolve.js";
 import { parseScenarioText } from "../src/scenario/text.js";
+import { browserAvailable, launchChromium, startView } from "./browser.js";
 
-const CHROMIUM = process.env.CALORBIT_CHROMIUM ?? "/usr/bin/chromium";
-const CLI = join(import.meta.dirname, "..", "dist", "src", "cli", "main.js");
 const DEMO = join(import.meta.dirname, "..", "scenarios", "oruvane-eccentric.yaml");
-const haveBrowser = existsSync(CHROMIUM);
-if (!haveBrowser) {
-  const message = `\n*** ${CHROMIUM} not found: the browser test of the map view is SKIPPED. Install Debian's chromium (apt-get install chromium). ***\n`;
-  if (process.env.CI === "true") throw new Error(message);
-  console.warn(message);
-}
+const haveBrowser = browserAvailable("the map view");
 
 let server: ChildProcess;
 let browser: Browser;
@@ -29,21 +23,9 @@ const errors: string[] = [];
 
 beforeAll(async () => {
   if (!haveBrowser) return;
-  server = spawn(process.execPath, [CLI, "view", DEMO, "--port", "0"], { stdio: ["ignore", "pipe", "pipe"] });
-  const url = await new Promise<string>((resolve, reject) => {
-    let out = "";
-    server.stdout!.on("data", (chunk: Buffer) => {
-      out += chunk.toString();
-      const m = /(http:\/\/127\.0\.0\.1:\d+\/)/.exec(out);
-      if (m) resolve(m[1]!);
-    });
-    server.on("exit", (code) => reject(new Error(`calorbit view exited (${code})`)));
-  });
-  browser = await chromium.launch({
-    executablePath: CHROMIUM,
-    headless: true,
-    args: ["--no-sandbox", "--disable-gpu", "--disable-background-networking", "--disable-component-update", "--disable-sync", "--no-first-run", "--disable-quic"],
-  });
+  let url: string;
+  ({ server, url } = await startView(DEMO));
+  browser = await launchChromium();
   page = await browser.newPage({ viewport: { width: 1300, height: 900 } });
   page.on("pageerror", (e) => errors.push(e.message));
   await page.goto(url);

@@ -2,22 +2,16 @@
  * The viewer in a real browser: Debian's chromium driven by playwright-core (never a browser that
  * a test tool downloads). Outside CI a missing chromium skips this file loudly; in CI it fails.
  */
-import { spawn, spawnSync, type ChildProcess } from "node:child_process";
-import { existsSync, mkdirSync, readFileSync } from "node:fs";
+import { spawnSync, type ChildProcess } from "node:child_process";
+import { mkdirSync, readFileSync } from "node:fs";
 import { join } from "node:path";
-import { chromium, type Browser, type Page } from "playwright-core";
+import type { Browser, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { pngTextChunks } from "../src/view/exportData.js";
+import { browserAvailable, CLI, launchChromium, startView } from "./browser.js";
 
-const CHROMIUM = process.env.CALORBIT_CHROMIUM ?? "/usr/bin/chromium";
-const CLI = join(import.meta.dirname, "..", "dist", "src", "cli", "main.js");
 const OUTPUT = join(import.meta.dirname, "..", "test-output");
-const haveBrowser = existsSync(CHROMIUM);
-if (!haveBrowser) {
-  const message = `\n*** ${CHROMIUM} not found: the browser test of the viewer is SKIPPED. Install Debian's chromium (apt-get install chromium). ***\n`;
-  if (process.env.CI === "true") throw new Error(message);
-  console.warn(message);
-}
+const haveBrowser = browserAvailable("the viewer");
 
 let server: ChildProcess;
 let url: string;
@@ -26,21 +20,8 @@ let page: Page;
 
 beforeAll(async () => {
   if (!haveBrowser) return;
-  server = spawn(process.execPath, [CLI, "view", "--port", "0"], { stdio: ["ignore", "pipe", "pipe"] });
-  url = await new Promise<string>((resolve, reject) => {
-    let out = "";
-    server.stdout!.on("data", (chunk: Buffer) => {
-      out += chunk.toString();
-      const m = /(http:\/\/127\.0\.0\.1:\d+\/)/.exec(out);
-      if (m) resolve(m[1]!);
-    });
-    server.on("exit", (code) => reject(new Error(`calorbit view exited (${code})`)));
-  });
-  browser = await chromium.launch({
-    executablePath: CHROMIUM,
-    headless: true,
-    args: ["--no-sandbox", "--disable-gpu", "--disable-background-networking", "--disable-component-update", "--disable-sync", "--no-first-run", "--disable-quic"],
-  });
+  ({ server, url } = await startView());
+  browser = await launchChromium();
   page = await browser.newPage({ viewport: { width: 1400, height: 900 }, acceptDownloads: true });
 }, 60_000);
 
@@ -193,11 +174,7 @@ describe.skipIf(!haveBrowser)("the viewer in chromium", () => {
     const r = spawnSync(process.execPath, [CLI, "sweep", "--vary", "orbit.eccentricity=0:0.8:5", "--vary", "body.layer.thickness=1 m..100 m:4 log", "--quiet", "--out", sweepFile], { encoding: "utf8" });
     expect(r.status).toBe(0);
     for (const [target, mode] of [[sweepFile, "sweep"], [join(import.meta.dirname, "..", "scenarios", "sarvek-regolith.yaml"), "column"]] as const) {
-      const other = spawn(process.execPath, [CLI, "view", target, "--port", "0"], { stdio: ["ignore", "pipe", "pipe"] });
-      const otherUrl = await new Promise<string>((resolve) => other.stdout!.on("data", (c: Buffer) => {
-        const m = /(http:\/\/127\.0\.0\.1:\d+\/)/.exec(c.toString());
-        if (m) resolve(m[1]!);
-      }));
+      const { server: other, url: otherUrl } = await startView(target);
       const p = await browser.newPage({ viewport: { width: 1400, height: 900 } });
       await p.goto(otherUrl);
       await p.waitForFunction(() => (window as unknown as { calorbitViewer?: unknown }).calorbitViewer !== undefined);
