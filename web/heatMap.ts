@@ -4,22 +4,8 @@
  */
 import { niceTicks } from "../src/report/svg.js";
 import { cellAt, indexEdges, valueRange } from "../src/view/heatMapLayout.js";
+import { rampColour } from "../src/view/palette.js";
 
-/** A colour ramp from deep blue through teal to light yellow (perceptually ordered, colour-blind safe). */
-const RAMP = [
-  [13, 42, 110],
-  [0, 114, 178],
-  [0, 158, 115],
-  [160, 200, 80],
-  [240, 228, 66],
-];
-export function rampColour(f: number): string {
-  const x = Math.min(1, Math.max(0, f)) * (RAMP.length - 1);
-  const i = Math.min(RAMP.length - 2, Math.floor(x));
-  const t = x - i;
-  const c = RAMP[i]!.map((v, k) => Math.round(v + t * (RAMP[i + 1]![k]! - v)));
-  return `rgb(${c[0]},${c[1]},${c[2]})`;
-}
 
 export interface HeatMapSpec {
   title: string;

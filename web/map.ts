@@ -9,8 +9,7 @@ import { DAY_S } from "../src/constants.js";
 import { BandRadiance, type Passband } from "../src/physics/planck.js";
 import { lonLatGrid } from "../src/physics/surfaceGrid.js";
 import type { MapViewDocument } from "../src/report/mapReport.js";
-import { temperatureColour } from "../src/report/mapReport.js";
-import { CHART_COLOURS } from "../src/view/palette.js";
+import { CHART_COLOURS, rampColour } from "../src/view/palette.js";
 import { $, expose, hideLumpedPanels, setText } from "./dom.js";
 
 const DEG = Math.PI / 180;
@@ -86,12 +85,12 @@ export function startMap(doc: MapViewDocument): void {
     for (let j = 0; j < h.latitudes; j++) {
       for (let i = 0; i < h.longitudes; i++) {
         const v = history.temperatureK[s * cells + j * h.longitudes + i]!;
-        ctx.fillStyle = temperatureColour((v - lo) / (hi - lo || 1));
+        ctx.fillStyle = rampColour((v - lo) / (hi - lo || 1));
         ctx.fillRect(i * cw, height - (j + 1) * ch, cw + 0.5, ch + 0.5);
       }
     }
     for (let b = 0; b < 100; b++) {
-      ctx.fillStyle = temperatureColour(b / 99);
+      ctx.fillStyle = rampColour(b / 99);
       ctx.fillRect((b * width) / 100, height + 8, width / 100 + 0.5, 12);
     }
     ctx.clearRect(0, height + 22, width, 18);

@@ -4,7 +4,7 @@
  */
 import type { ObservedMap } from "../run/observeMap.js";
 import type { ResolvedScenario } from "../scenario/resolve.js";
-import { CHART_COLOURS } from "../view/palette.js";
+import { CHART_COLOURS, rampColour } from "../view/palette.js";
 import { VERSION } from "../version.js";
 import { resolvedScenarioRecord } from "./document.js";
 import { niceTicks } from "./svg.js";
@@ -204,23 +204,6 @@ export function mapSnapshotCsv(resolved: ResolvedScenario, o: ObservedMap, sampl
   return lines.join("\n") + "\n";
 }
 
-/** A colour for t in [0, 1] on calorbit's own temperature ramp (dark blue, purple, red, orange, pale yellow). */
-export function temperatureColour(t: number): string {
-  const stops = [
-    [16, 24, 64],
-    [84, 39, 143],
-    [190, 50, 80],
-    [240, 130, 40],
-    [252, 236, 160],
-  ];
-  const x = Math.max(0, Math.min(1, t)) * (stops.length - 1);
-  const i = Math.min(stops.length - 2, Math.floor(x));
-  const w = x - i;
-  const a = stops[i]!;
-  const b = stops[i + 1]!;
-  const c = (j: number) => Math.round(a[j]! + w * (b[j]! - a[j]!)).toString(16).padStart(2, "0");
-  return `#${c(0)}${c(1)}${c(2)}`;
-}
 
 function escapeXml(text: string): string {
   return text.replace(/&/g, "&amp;").replace(/</g, "&lt;").replace(/>/g, "&gt;").replace(/"/g, "&quot;");
@@ -298,11 +281,11 @@ export function mapSvg(resolved: ResolvedScenario, o: ObservedMap, sample: numbe
       const k = j * g.longitudes + i;
       const t = h.temperatureK[sample * cells + k]!;
       const y = mapBox.bottom - (j + 1) * ch;
-      parts.push(`<rect x="${(mapBox.left + i * cw).toFixed(2)}" y="${y.toFixed(2)}" width="${(cw + 0.3).toFixed(2)}" height="${(ch + 0.3).toFixed(2)}" fill="${temperatureColour((t - lo) / (hi - lo || 1))}"/>`);
+      parts.push(`<rect x="${(mapBox.left + i * cw).toFixed(2)}" y="${y.toFixed(2)}" width="${(cw + 0.3).toFixed(2)}" height="${(ch + 0.3).toFixed(2)}" fill="${rampColour((t - lo) / (hi - lo || 1))}"/>`);
     }
   }
   for (let b = 0; b <= 20; b++) {
-    parts.push(`<rect x="${(mapBox.left + (b * (mapBox.right - mapBox.left)) / 21).toFixed(2)}" y="${mapBox.bottom + 24}" width="${((mapBox.right - mapBox.left) / 21 + 0.5).toFixed(2)}" height="12" fill="${temperatureColour(b / 20)}"/>`);
+    parts.push(`<rect x="${(mapBox.left + (b * (mapBox.right - mapBox.left)) / 21).toFixed(2)}" y="${mapBox.bottom + 24}" width="${((mapBox.right - mapBox.left) / 21 + 0.5).toFixed(2)}" height="12" fill="${rampColour(b / 20)}"/>`);
   }
   parts.push(`<text x="${mapBox.left}" y="${mapBox.bottom + 54}">${fixed(lo, 0)} K</text>`);
   parts.push(`<text x="${mapBox.right}" y="${mapBox.bottom + 54}" text-anchor="end">${fixed(hi, 0)} K</text>`);

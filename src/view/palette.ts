@@ -45,3 +45,23 @@ export function overlayColours(regimes: readonly string[], reserved: readonly st
     return colour;
   });
 }
+
+/** The one colour ramp of calorbit's maps (heat maps, surface maps, in the SVG and the viewer): deep blue through teal to light yellow, perceptually ordered and colour-blind safe. */
+const RAMP = [
+  [13, 42, 110],
+  [0, 114, 178],
+  [0, 158, 115],
+  [160, 200, 80],
+  [240, 228, 66],
+] as const;
+
+/** The ramp's colour at f in [0, 1] (clamped), as #rrggbb. */
+export function rampColour(f: number): string {
+  const x = Math.min(1, Math.max(0, f)) * (RAMP.length - 1);
+  const i = Math.min(RAMP.length - 2, Math.floor(x));
+  const t = x - i;
+  const a = RAMP[i]!;
+  const b = RAMP[i + 1]!;
+  const channel = (k: number) => Math.round(a[k]! + t * (b[k]! - a[k]!)).toString(16).padStart(2, "0");
+  return `#${channel(0)}${channel(1)}${channel(2)}`;
+}
