@@ -7,18 +7,18 @@
  *
  * `npm run build && node dist/bench/columnReference.js` adds it to bench/references.json.
  */
+import { simulate } from "../src/run/simulate.js";
 import { execSync } from "node:child_process";
 import { readFileSync, writeFileSync } from "node:fs";
 import { fileURLToPath } from "node:url";
-import { simulateColumn } from "../src/run/simulateColumn.js";
 import { columnCase, columnSpec } from "./columnCase.js";
 
 const STEPS_FACTOR = 4;
 const started = Date.now();
-const result = simulateColumn(columnCase(), columnSpec(STEPS_FACTOR), { relativeTolerance: 1e-7, samples: 0 });
+const result = simulate({ ...columnCase(), column: columnSpec(STEPS_FACTOR) }, { relativeTolerance: 1e-7, samples: 0 });
 const path = fileURLToPath(new URL("../../bench/references.json", import.meta.url));
 const document = JSON.parse(readFileSync(path, "utf8"));
-const deepest = result.summary.depthProfile.at(-1)!;
+const deepest = result.summary.depthProfile!.at(-1)!;
 document.column = {
   provenance: {
     generator: "bench/columnReference.ts (npm run build && node dist/bench/columnReference.js)",

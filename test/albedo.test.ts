@@ -54,8 +54,8 @@ describe("incidence-dependent albedo A(θ)", () => {
       location: { latitudeRad: 0, longitudeRad: 0 },
       spin: { rateRadPerSecond: (2 * 2 * Math.PI) / 3.15576e7, ratio: { spin: 2, orbit: 1 }, obliquityRad: 0, equinoxTrueAnomalyRad: 0 },
     };
-    const a = simulate(point, { samples: 0 }).summary.meanAbsorbedWPerM2;
-    const b = simulate({ ...point, surface: { ...point.surface, albedoIncidence: MOON } }, { samples: 0 }).summary.meanAbsorbedWPerM2;
+    const a = simulate(point, { samples: 0 }).summary.meanAbsorbedWPerM2!;
+    const b = simulate({ ...point, surface: { ...point.surface, albedoIncidence: MOON } }, { samples: 0 }).summary.meanAbsorbedWPerM2!;
     // Over a day at the equator the mean is (S/π)∫₀^{π/2} (1 − A(z)) cos z dz (z = H here); by quadrature:
     let integral = 0;
     const steps = 20000;

@@ -79,18 +79,18 @@ describe("sweep files for the viewer", () => {
       "# calorbit 0.1.0 sweep",
       "# definition: {}",
       "# shard: 1/1",
-      "case_id,orbit.eccentricity,body.albedo,status,T_min_K,T_max_K,integrator",
+      "case_id,orbit.eccentricity,body.albedo,status,temperature_min_K,temperature_max_K,integrator",
       "0,0,0.1,ok,250,260,odex",
       '1,0.5,0.1,"error: orbit.eccentricity: given 1.5; allowed: a number with 0 ≤ e < 1",,,',
     ].join("\n");
     const t = parseSweepText(csv);
     expect(t.inputs).toEqual(["orbit.eccentricity", "body.albedo"]);
-    expect(t.metrics).toEqual(["T_min_K", "T_max_K"]);
+    expect(t.metrics).toEqual(["temperature_min_K", "temperature_max_K"]);
     expect(t.ok).toEqual([true, false]);
-    expect(t.columns["T_max_K"]![0]).toBe(260);
-    expect(Number.isNaN(t.columns["T_max_K"]![1])).toBe(true);
-    const jsonl = ['{"case_id":0,"orbit.eccentricity":0,"body.albedo":0.1,"status":"ok","T_min_K":250,"T_max_K":260,"integrator":"odex"}'].join("\n");
-    expect(parseSweepText(jsonl).metrics).toEqual(["T_min_K", "T_max_K"]);
+    expect(t.columns["temperature_max_K"]![0]).toBe(260);
+    expect(Number.isNaN(t.columns["temperature_max_K"]![1])).toBe(true);
+    const jsonl = ['{"case_id":0,"orbit.eccentricity":0,"body.albedo":0.1,"status":"ok","temperature_min_K":250,"temperature_max_K":260,"integrator":"odex"}'].join("\n");
+    expect(parseSweepText(jsonl).metrics).toEqual(["temperature_min_K", "temperature_max_K"]);
     expect(levels([0.3, 0.1, 0.3, Number.NaN, 0.2])).toEqual([0.1, 0.2, 0.3]);
   });
 });

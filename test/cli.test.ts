@@ -215,7 +215,7 @@ describe("calorbit compare and insolation", async () => {
     const r = await calorbit("compare", join(SCENARIOS, "miradel-resonant.yaml"), "--regimes", "global,point", "--csv", out, "--samples", "201");
     expect(r.status).toBe(0);
     const rows = readFileSync(out, "utf8").trim().split("\n").filter((l) => !l.startsWith("#"));
-    expect(rows[0]).toBe("time_s,T_global_K,Teq_global_K,T_point_K,Teq_point_K");
+    expect(rows[0]).toBe("time_s,temperature_global_K,equilibrium_global_K,temperature_point_K,equilibrium_point_K");
     expect(rows).toHaveLength(202);
     // The global regime repeats each orbit; the 3:2 point needs two.
     const col = (j: number) => rows.slice(1).map((l) => Number(l.split(",")[j]));
@@ -301,7 +301,7 @@ describe("a conduction column from the CLI", async () => {
     const out = join(dir, "column.csv");
     await calorbit("run", path, "--csv", out, "--samples", "30");
     const header = readFileSync(out, "utf8").split("\n").find((l) => !l.startsWith("#"))!;
-    expect(header).toBe("time_s,distance_au,absorbed_flux_W_m2,surface_temperature_K,equilibrium_K,temperature_at_0.01m_K,temperature_at_0.05m_K,temperature_at_0.3m_K");
+    expect(header).toBe("time_s,orbit_phase,true_anomaly_deg,distance_au,stellar_flux_W_m2,absorbed_flux_W_m2,temperature_K,equilibrium_K,temperature_at_0.01m_K,temperature_at_0.05m_K,temperature_at_0.3m_K");
   });
 
   it("rejects a column given with a heat capacity, and a sweep or comparison of a column case says why", async () => {
@@ -358,15 +358,15 @@ describe("calorbit as a process (what needs a real one: exit status, pipes, star
 });
 
 describe("flags that do not apply, and outputs that would overwrite", () => {
-  it("refuses --series without --json, and --svg or --integrator for a conduction column, in one line each", async () => {
+  it("refuses --series without --json and --integrator for a conduction column in one line each, and charts a column like a slab", async () => {
     const series = await calorbit("run", "--series");
     expect(series.status).toBe(2);
     expect(series.stderr).toBe("calorbit: --series: given without --json; allowed: --series only with --json (it adds the series to the JSON document; for a table use --csv FILE)\n");
     const column = join(SCENARIOS, "sarvek-regolith.yaml");
-    const svg = await calorbit("run", column, "--svg", join(dir, "never.svg"));
-    expect(svg.status).toBe(2);
-    expect(svg.stderr).toMatch(/^calorbit: --svg: given .*; allowed: no SVG chart for a conduction column yet/);
-    expect(existsSync(join(dir, "never.svg"))).toBe(false);
+    // One writer for every heat store: a column's surface temperature is charted as a slab's is.
+    const svg = await calorbit("run", column, "--svg", join(dir, "column.svg"));
+    expect(svg.status).toBe(0);
+    expect(readFileSync(join(dir, "column.svg"), "utf8")).toMatch(/^<\?xml[^\n]*\n<svg[\s\S]*<\/svg>\s*$/);
     const integrator = await calorbit("run", column, "--integrator", "radau");
     expect(integrator.status).toBe(2);
     expect(integrator.stderr).toMatch(/^calorbit: --integrator: given "radau"; allowed: none for a conduction column/);
@@ -396,7 +396,7 @@ describe("flags that do not apply, and outputs that would overwrite", () => {
     const column = await calorbit("compare", join(SCENARIOS, "sarvek-regolith.yaml"), "--regimes", "global,dayside", "--csv", join(dir, "never-compare.csv"));
     expect(column.status).toBe(2);
     expect(column.stderr).toBe(
-      "calorbit: compare: no regime could run for this scenario, because this case has a conduction column (body.column), and only calorbit run and calorbit sweep solve a column; compare and the viewer's live controls take a slab (body.heatCapacity or body.layer)\n",
+      "calorbit: compare: no regime could run for this scenario, because this case has a conduction column (body.column), and compare takes slab surfaces (body.heatCapacity or body.layer); run each regime of a column with calorbit run\n",
     );
     expect(existsSync(join(dir, "never-compare.csv"))).toBe(false);
     const dn = await calorbit("compare", scenarioFile("nonight2.yaml", validScenario), "--regimes", "daynight");

@@ -4,7 +4,6 @@ import { buildColumnGrid, DEFAULT_GRID, skinDepthM, type ColumnProperties } from
 import { solveColumnPeriodic, solveSurface, type ColumnProblem } from "../src/solve/columnSolver.js";
 import { CalorbitError } from "../src/errors.js";
 import { simulate } from "../src/run/simulate.js";
-import { simulateColumn } from "../src/run/simulateColumn.js";
 import { nominalCase } from "./helpers.js";
 
 const homogeneous = (k: number, rho: number, c: number): ColumnProperties => ({
@@ -110,13 +109,15 @@ describe("conduction column", () => {
   it("reproduces the lumped model when the column is thin and highly conductive", () => {
     const base = nominalCase({ e: 0.3, heatCapacity: 2700 * 897 * 0.5 });
     const lumped = simulate(base, { samples: 0 });
-    const col = simulateColumn(
-      base,
+    const col = simulate(
       {
-        properties: homogeneous(2000, 2700, 897),
-        grid: { ...DEFAULT_GRID, totalDepthM: 0.5, stepsPerShortestPeriod: 2000 },
-        outputDepthsM: [],
-        interiorFluxWPerM2: 0,
+        ...base,
+        column: {
+          properties: homogeneous(2000, 2700, 897),
+          grid: { ...DEFAULT_GRID, totalDepthM: 0.5, stepsPerShortestPeriod: 2000 },
+          outputDepthsM: [],
+          interiorFluxWPerM2: 0,
+        },
       },
       { relativeTolerance: 1e-8 },
     );
@@ -143,7 +144,9 @@ describe("an airless regolith against published lunar temperatures", () => {
       location: { latitudeRad: 0, longitudeRad: 0 },
       spin: { rateRadPerSecond: (13 * 2 * Math.PI) / (12 * synodicMonth), ratio: { spin: 13, orbit: 1 }, obliquityRad: 0, equinoxTrueAnomalyRad: 0 },
     };
-    const sim = simulateColumn(thermal, {
+    const sim = simulate({
+      ...thermal,
+      column: {
       properties: {
         densitySurface: 1100,
         densityDeep: 1800,
@@ -156,6 +159,7 @@ describe("an airless regolith against published lunar temperatures", () => {
       grid: DEFAULT_GRID,
       outputDepthsM: [],
       interiorFluxWPerM2: 0.018,
+      },
     });
     expect(sim.summary.solarDaySeconds! / synodicMonth).toBeCloseTo(1, 9);
     expect(Math.abs(sim.summary.temperature.maxK - 390)).toBeLessThan(6);
@@ -164,9 +168,9 @@ describe("an airless regolith against published lunar temperatures", () => {
     // memory); with a constant albedo of 0.12 the same column gives 217.5 K, 4.5 K too warm,
     // because grazing morning and evening light is then absorbed as if it came from overhead.
     expect(Math.abs(sim.summary.temperature.meanK - 213)).toBeLessThan(3.5);
-    expect(Math.abs(sim.summary.energyBalanceResidual)).toBeLessThan(1e-5);
+    expect(Math.abs(sim.summary.energyBalanceResidual!)).toBeLessThan(1e-5);
     // The profile: the daily wave is gone a few skin depths down (Hayne et al. 2017: ≈ 250 K below ~0.5 m, from memory).
-    const deep = sim.summary.depthProfile.at(-1)!;
+    const deep = sim.summary.depthProfile!.at(-1)!;
     expect(deep.maxK - deep.minK).toBeLessThan(1);
     expect(Math.abs(deep.meanK - 250)).toBeLessThan(20);
   });
@@ -187,14 +191,14 @@ describe("a column under a retrograde spin", () => {
       interiorFluxWPerM2: 0.05,
     };
     const run = (spinRatio: number, obliquityRad: number) =>
-      simulateColumn({ ...base, spin: { rateRadPerSecond: (spinRatio / 16) * n, ratio: { spin: spinRatio, orbit: 16 }, obliquityRad, equinoxTrueAnomalyRad: 0 } }, column);
+      simulate({ ...base, column, spin: { rateRadPerSecond: (spinRatio / 16) * n, ratio: { spin: spinRatio, orbit: 16 }, obliquityRad, equinoxTrueAnomalyRad: 0 } });
     const retrograde = run(17, Math.PI);
     const prograde = run(49, 0);
     expect(retrograde.summary.solarDaySeconds! / P).toBeCloseTo(16 / 33, 12);
     expect(prograde.summary.solarDaySeconds! / P).toBeCloseTo(16 / 33, 12);
     expect(retrograde.solver.stepsPerCycle).toBe(prograde.solver.stepsPerCycle);
     expect(retrograde.solver.layers).toBe(prograde.solver.layers);
-    expect(retrograde.summary.skinDepths.diurnalM).toBeCloseTo(prograde.summary.skinDepths.diurnalM!, 12);
+    expect(retrograde.summary.skinDepths!.diurnalM).toBeCloseTo(prograde.summary.skinDepths!.diurnalM!, 12);
     for (const key of ["minK", "maxK", "meanK"] as const) {
       expect(Math.abs(retrograde.summary.temperature[key] / prograde.summary.temperature[key] - 1)).toBeLessThan(1e-9);
     }

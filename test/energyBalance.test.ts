@@ -54,7 +54,7 @@ describe("periodic steady state", () => {
       const heatCapacity = tauOverPeriod * period * 4 * STEFAN_BOLTZMANN * tMean ** 3;
       const sim = simulate(nominalCase({ e: 1e-5, heatCapacity, periodSeconds: period }), { samples: 0, relativeTolerance: 1e-12 });
       const omegaTau = 2 * Math.PI * tauOverPeriod;
-      expect(Math.abs(sim.summary.dampingRatio * Math.sqrt(1 + omegaTau ** 2) - 1)).toBeLessThan(1e-4);
+      expect(Math.abs(sim.summary.dampingRatio! * Math.sqrt(1 + omegaTau ** 2) - 1)).toBeLessThan(1e-4);
       const lag = (Math.atan(omegaTau) / (2 * Math.PI)) * period;
       expect(Math.abs(sim.summary.lagSeconds! / lag - 1)).toBeLessThan(1e-4);
     });
@@ -74,7 +74,7 @@ describe("periodic steady state", () => {
             nominalCase({ e, heatCapacity: 10 ** log10C, albedo, emissivity, aAu, periodSeconds: 3.15576e7 * aAu ** 1.5, meanAnomalyAtStartRad: m0 }),
             { samples: 0 },
           );
-          return Math.abs(sim.summary.energyBalanceResidual) <= 1e-8;
+          return Math.abs(sim.summary.energyBalanceResidual!) <= 1e-8;
         },
       ),
       { numRuns: 60, seed: 20261201 },
@@ -88,7 +88,7 @@ describe("periodic steady state", () => {
     const fast = simulate(nominalCase({ e: 0.5, heatCapacity: cFor(1) }), { samples: 0 });
     expect(slow.summary.tauOverPeriod).toBeGreaterThan(90);
     expect(slow.solver.iterations).toBeLessThanOrEqual(fast.solver.iterations + 1);
-    expect(Math.abs(slow.summary.energyBalanceResidual)).toBeLessThan(1e-8);
+    expect(Math.abs(slow.summary.energyBalanceResidual!)).toBeLessThan(1e-8);
   });
 
   it("measures the lag from periastron whatever the starting phase", () => {

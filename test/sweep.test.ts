@@ -209,7 +209,7 @@ describe("calorbit sweep", () => {
     const r = await sweep(scenario, ...grid, "--out", out);
     expect(r.status).toBe(0);
     const header = readFileSync(out, "utf8").split("\n").find((l) => l.startsWith("case_id"))!;
-    expect(header.startsWith("case_id,orbit.eccentricity,body.heatCapacity,status,T_min_K,T_max_K,T_mean_K")).toBe(true);
+    expect(header.startsWith("case_id,orbit.eccentricity,body.heatCapacity,status,temperature_min_K,temperature_max_K,temperature_mean_K")).toBe(true);
     expect(header).toContain("evaluations");
     expect(idsOf(out)).toEqual(range(16));
     expect(rowsOf(out).every((l) => l.split(",")[3] === "ok")).toBe(true);
@@ -238,16 +238,16 @@ describe("calorbit sweep", () => {
     const run = await calorbit(["run", column, "--json"]);
     const doc = JSON.parse(run.stdout) as { summary: { temperature: { minK: number; meanK: number }; skinDepths: { diurnalM: number; orbitalM: number }; depthProfile: { meanK: number }[] } };
     // The scenario's own albedo is 0.11: the first row must be that run, number for number.
-    expect(Number(rows[0]!.T_min_K)).toBe(doc.summary.temperature.minK);
-    expect(Number(rows[0]!.T_mean_K)).toBe(doc.summary.temperature.meanK);
-    expect(Number(rows[0]!.skin_depth_diurnal_m)).toBe(doc.summary.skinDepths.diurnalM);
-    expect(Number(rows[0]!.skin_depth_orbital_m)).toBe(doc.summary.skinDepths.orbitalM);
-    expect(Number(rows[0]!.T_deep_mean_K)).toBe(doc.summary.depthProfile.at(-1)!.meanK);
+    expect(Number(rows[0]!.temperature_min_K)).toBe(doc.summary.temperature.minK);
+    expect(Number(rows[0]!.temperature_mean_K)).toBe(doc.summary.temperature.meanK);
+    expect(Number(rows[0]!.skin_depths_diurnal_m)).toBe(doc.summary.skinDepths.diurnalM);
+    expect(Number(rows[0]!.skin_depths_orbital_m)).toBe(doc.summary.skinDepths.orbitalM);
+    expect(Number(rows[0]!.deep_mean_K)).toBe(doc.summary.depthProfile.at(-1)!.meanK);
     expect(rows[0]!.integrator).toBe("crank-nicolson");
     expect(rows[0]!.tau_over_period).toBe("");
     // A brighter surface absorbs less: colder at the surface and at depth.
-    expect(Number(rows[1]!.T_mean_K)).toBeLessThan(Number(rows[0]!.T_mean_K));
-    expect(Number(rows[1]!.T_deep_mean_K)).toBeLessThan(Number(rows[0]!.T_deep_mean_K));
+    expect(Number(rows[1]!.temperature_mean_K)).toBeLessThan(Number(rows[0]!.temperature_mean_K));
+    expect(Number(rows[1]!.deep_mean_K)).toBeLessThan(Number(rows[0]!.deep_mean_K));
   });
 
   it("tells a user whose shell split off a log range's \"log\" to quote it", async () => {

@@ -40,7 +40,7 @@ describe("--format jsonl", () => {
     const rows = records.slice(1);
     expect(rows.map((r) => r.case_id)).toEqual(Array.from({ length: 12 }, (_, i) => i));
     expect(rows[7]).toMatchObject({ case_id: 7, "orbit.eccentricity": 0.3, regime: "dayside", "body.albedo": 0.4, status: "ok", integrator: expect.any(String) });
-    for (const r of rows) expect(typeof r.T_mean_K).toBe("number");
+    for (const r of rows) expect(typeof r.temperature_mean_K).toBe("number");
   });
 
   it("resumes a torn JSON Lines file and merges JSON Lines shards into the serial run's lines", async () => {

@@ -88,7 +88,7 @@ describe("--format parquet", () => {
     const columns = Object.keys(expected[0]!);
     expect(metadata.schema.slice(1).map((e) => e.name)).toEqual(columns);
     const types = Object.fromEntries(metadata.schema.slice(1).map((e) => [e.name!, e.type]));
-    expect([types.case_id, types["orbit.eccentricity"], types.regime, types["thresholds.0_K"], types.status, types.T_min_K, types.iterations, types.integrator]).toEqual([
+    expect([types.case_id, types["orbit.eccentricity"], types.regime, types["thresholds.0_K"], types.status, types.temperature_min_K, types.iterations, types.integrator]).toEqual([
       "INT64", "DOUBLE", "BYTE_ARRAY", "DOUBLE", "BYTE_ARRAY", "DOUBLE", "INT32", "BYTE_ARRAY",
     ]);
     rows.forEach((row, i) => {

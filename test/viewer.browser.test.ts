@@ -192,7 +192,7 @@ describe.skipIf(!haveBrowser)("the viewer in chromium", () => {
       const box = (await p.locator("#chart-temperature canvas").boundingBox())!;
       await p.mouse.move(box.x + box.width * 0.4, box.y + box.height * 0.5);
       const tip = (await p.textContent('[data-testid="heat-tip"]')) ?? "";
-      expect(tip).toMatch(mode === "sweep" ? /^orbit\.eccentricity = [\d.]+, body\.layer\.thickness_m = [\d.]+: T_swing_K = [\d.]+$/ : /^time since start \(d\) = [\d.]+, depth \(m\) = [\d.e-]+: temperature \(K\) = [\d.]+$/);
+      expect(tip).toMatch(mode === "sweep" ? /^orbit\.eccentricity = [\d.]+, body\.layer\.thickness_m = [\d.]+: temperature_swing_K = [\d.]+$/ : /^time since start \(d\) = [\d.]+, depth \(m\) = [\d.e-]+: temperature \(K\) = [\d.]+$/);
       if (mode === "column") {
         // The column's summary names its rows: skin depths where a slab has τ / P.
         expect(await p.textContent('[data-testid="tau-label"]')).toBe("skin depths (solar day, orbit)");

@@ -372,11 +372,11 @@ function showSummary(sim: Simulation, thermal: ThermalCase): void {
   }
   setText("lag", lagWords(s, thermal.orbit.eccentricity));
   setText("damping-label", twoStates ? "damping ratio (day side)" : "damping ratio");
-  setText("damping", fmt(s.dampingRatio, 3));
+  setText("damping", s.dampingRatio === null ? "—" : fmt(s.dampingRatio, 3));
   setText("tau-label", "τ / P (radiative time)");
-  setText("tau", `${sig(s.tauOverPeriod)} (τ = ${duration(s.radiativeTimeSeconds)})`);
+  setText("tau", s.tauOverPeriod === null || s.radiativeTimeSeconds === null ? "—" : `${sig(s.tauOverPeriod)} (τ = ${duration(s.radiativeTimeSeconds)})`);
   setText("in-range", windowWords(s) ?? "no window set");
-  setText("residual", s.energyBalanceResidual.toExponential(1));
+  setText("residual", s.energyBalanceResidual === null ? "—" : s.energyBalanceResidual.toExponential(1));
   setText("period", `${fmt(s.periodSeconds / DAY_S, 2)} d`);
   const cycle = cycleWords(s.periodSeconds, s.cycleSeconds);
   setText("cycle", cycle === "of the orbit" ? "one orbit" : `${sig(s.cycleSeconds / s.periodSeconds, 3)} orbits (the spin–orbit resonance repeats)`);

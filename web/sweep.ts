@@ -19,7 +19,7 @@ export function startSweep(file: string, table: SweepTable): void {
     panel.insertBefore(l, $("status"));
     return sel;
   };
-  const metric = select("metric", table.metrics, table.metrics.includes("T_swing_K") ? "T_swing_K" : table.metrics[0]!);
+  const metric = select("metric", table.metrics, table.metrics.includes("temperature_swing_K") ? "temperature_swing_K" : table.metrics[0]!);
   const xSel = select("x axis", table.inputs, table.inputs[0]!);
   const ySel = select("y axis (heat map)", ["none (curves)", ...table.inputs], table.inputs[1] ?? "none (curves)");
   const draw = () => {

@@ -6,7 +6,8 @@
  */
 import { wienPeakWavelengthM } from "../physics/flux.js";
 import { firstPeriastronSeconds, timeAtEccentric, type Orbit } from "../physics/orbit.js";
-import type { SlabModel } from "../model/build.js";
+import type { ThermalModel } from "../model/build.js";
+import { exchangeIsBudget } from "../model/exchange.js";
 import { explicitTimeMean, hermiteExtremum, positiveModulo, refinedExtremum, timeInWindow, timeMean } from "./cycleStatistics.js";
 
 export interface TemperatureStats {
@@ -40,15 +41,36 @@ export interface StateSummary {
   wienPeakAtMaxM: number;
 }
 
-export interface CycleSummary extends StateSummary {
+/** Why a summary number is null (or what it is not), keyed by the field's name. */
+export type SummaryNotes = Partial<Record<"tauOverPeriod" | "energyBalanceResidual" | "dampingRatio" | "meanAbsorbedWPerM2", string>>;
+
+/** One layer of a conduction column over the cycle. */
+export interface DepthRow {
+  depthM: number;
+  minK: number;
+  maxK: number;
+  meanK: number;
+}
+
+export interface CycleSummary extends Omit<StateSummary, "dampingRatio" | "meanAbsorbedWPerM2" | "meanEmittedWPerM2"> {
   periodSeconds: number;
   /** Length of the forcing cycle summarised (one orbit, or q orbits for a p:q resonance), s. */
   cycleSeconds: number;
-  /** τ = C/(4εσT³) at the equilibrium of the cycle-mean absorbed flux, s. */
-  radiativeTimeSeconds: number;
-  tauOverPeriod: number;
-  /** (absorbed − emitted) / absorbed over the cycle, all states together; ≈ 0 at periodic steady state. */
-  energyBalanceResidual: number;
+  /** Temperature swing over equilibrium swing (1 when the equilibrium does not swing); null for a transient, whose swing includes its drift. */
+  dampingRatio: number | null;
+  /** τ = C/(4εσT³) at the equilibrium of the cycle-mean absorbed flux, s; null for a column (no single τ: see its skin depths). */
+  radiativeTimeSeconds: number | null;
+  tauOverPeriod: number | null;
+  /** Time-mean stellar + internal power absorbed by the whole surface (area-weighted), W m⁻²; null when the cells are not an energy budget. */
+  meanAbsorbedWPerM2: number | null;
+  /** Time-mean emitted power of the whole surface (area-weighted), W m⁻²; null likewise. */
+  meanEmittedWPerM2: number | null;
+  /** (absorbed − emitted) / absorbed over the cycle, all cells together; ≈ 0 at a periodic steady state; null when it is not a budget (a transient, a flux-weighted dayside). */
+  energyBalanceResidual: number | null;
+  /** Why a number above is null. */
+  notes?: SummaryNotes;
+  /** A spin not commensurate with the orbit: the orbits summarised (the beat of spin and orbit) and the lowest and highest orbit-mean temperature among them. */
+  seasonal?: { orbits: number; orbitMeanK: { minK: number; maxK: number } };
   /** Mean solar day (point regime), s; null for a synchronous spin. */
   solarDaySeconds?: number | null;
   /** A surface of several cells: each cell's statistics, in cell order (the top-level numbers are cell 0's; the energy fields the area-weighted whole). */
@@ -56,39 +78,42 @@ export interface CycleSummary extends StateSummary {
   /** Day/night regime: the two hemispheres. */
   day?: StateSummary;
   night?: StateSummary;
+  /** Conduction column only: thermal inertia at the surface (J m⁻² K⁻¹ s⁻½), skin depths, depth profile, mean of the deepest layer. */
+  thermalInertiaSurface?: number;
+  skinDepths?: { diurnalM: number | null; orbitalM: number };
+  depthProfile?: DepthRow[];
+  deepMeanK?: number;
 }
 
 export interface SummaryInput {
-  model: SlabModel;
+  model: ThermalModel;
   orbit: Orbit;
   windowK?: readonly [number, number];
   /** Uniform grid in E over the summarised cycle, both ends included. */
   statsE: Float64Array;
   /** States at the grid points, component-major: statsY[k·n + i]. */
   statsY: Float64Array;
+  /** dT/dE at the grid points, same layout, K rad⁻¹ (for the refined extremes and the window crossings). */
+  statsDerivative: Float64Array;
+  mode: "periodic" | "seasonal" | "transient";
+  /** A column's own budget over the cycle (its scheme's), used instead of the surface samples'. */
+  budget?: { meanAbsorbedWPerM2: number; meanEmittedWPerM2: number; residual: number };
 }
 
 export function cycleSummary(input: SummaryInput): CycleSummary {
-  const { model, orbit, statsE, statsY } = input;
-  const n = model.system.dimension;
+  const { model, orbit, statsE, statsDerivative } = input;
+  const n = model.stateNames.length;
   const count = statsE.length;
   const dtdE = new Float64Array(count);
-  const derivatives = new Float64Array(count * n);
   const equilibria = new Float64Array(count * n);
-  const dy = new Float64Array(n);
   const eq = new Float64Array(n);
-  const y = new Float64Array(n);
   for (let k = 0; k < count; k++) {
     const E = statsE[k]!;
     dtdE[k] = model.timePerAnomaly(E);
-    for (let i = 0; i < n; i++) y[i] = statsY[k * n + i]!;
-    model.system.derivative(E, y, dy);
     model.equilibriumAt(E, eq);
-    for (let i = 0; i < n; i++) {
-      derivatives[k * n + i] = dy[i]!;
-      equilibria[k * n + i] = eq[i]!;
-    }
+    for (let i = 0; i < n; i++) equilibria[k * n + i] = eq[i]!;
   }
+  const derivatives = statsDerivative;
   const states: StateSummary[] = [];
   // The whole surface: area-weighted means over its cells.
   let totalAbsorbed = 0;
@@ -100,21 +125,42 @@ export function cycleSummary(input: SummaryInput): CycleSummary {
     totalEmitted += model.areaWeights[i]! * s.meanEmittedWPerM2;
   }
   const cycleSeconds = timeAtEccentric(orbit, statsE[count - 1]!) - timeAtEccentric(orbit, statsE[0]!);
+  const notes: SummaryNotes = {};
+  const tau = model.radiativeTimeSeconds;
+  if (tau === null) notes.tauOverPeriod = "a conduction column has no single radiative time: see skinDepths";
+  let meanAbsorbed: number | null = input.budget?.meanAbsorbedWPerM2 ?? totalAbsorbed;
+  let meanEmitted: number | null = input.budget?.meanEmittedWPerM2 ?? totalEmitted;
+  let residual: number | null = input.budget?.residual ?? (totalAbsorbed - totalEmitted) / totalAbsorbed;
+  if (!exchangeIsBudget(model.exchange)) {
+    meanAbsorbed = null;
+    meanEmitted = null;
+    residual = null;
+    const note = "the flux-weighted dayside (f = 2/3) is the brightness seen at full phase, not an energy budget: see day and night";
+    notes.meanAbsorbedWPerM2 = note;
+    notes.energyBalanceResidual = note;
+  }
+  let dampingRatio: number | null = states[0]!.dampingRatio;
+  if (input.mode === "transient") {
+    residual = null;
+    dampingRatio = null;
+    notes.energyBalanceResidual = "a transient stores or releases heat: absorbed − emitted over its last orbit is the storage change, not a balance residual";
+    notes.dampingRatio = "a transient's swing includes its drift toward the periodic state";
+  }
   const summary: CycleSummary = {
     periodSeconds: orbit.periodSeconds,
     cycleSeconds,
     ...states[0]!,
-    radiativeTimeSeconds: model.radiativeTimeSeconds,
-    tauOverPeriod: model.radiativeTimeSeconds / orbit.periodSeconds,
-    energyBalanceResidual: (totalAbsorbed - totalEmitted) / totalAbsorbed,
+    dampingRatio,
+    radiativeTimeSeconds: tau,
+    tauOverPeriod: tau === null ? null : tau / orbit.periodSeconds,
+    meanAbsorbedWPerM2: meanAbsorbed,
+    meanEmittedWPerM2: meanEmitted,
+    energyBalanceResidual: residual,
   };
+  if (Object.keys(notes).length > 0) summary.notes = notes;
   if (model.solarDaySeconds !== undefined) summary.solarDaySeconds = model.solarDaySeconds;
-  if (n > 1) {
-    summary.meanAbsorbedWPerM2 = totalAbsorbed;
-    summary.meanEmittedWPerM2 = totalEmitted;
-    summary.cells = states.map((s, i) => ({ name: model.stateNames[i]!, areaWeight: model.areaWeights[i]!, ...s }));
-  }
-  if (model.stateNames[0] === "day" && states.length === 2) {
+  if (n > 1) summary.cells = states.map((s, i) => ({ name: model.stateNames[i]!, areaWeight: model.areaWeights[i]!, ...s }));
+  if (model.exchange.kind === "dayNight" && states.length === 2) {
     summary.day = states[0]!;
     summary.night = states[1]!;
   }
@@ -129,7 +175,7 @@ function stateSummary(
   equilibria: Float64Array,
 ): StateSummary {
   const { model, orbit, statsE, statsY } = input;
-  const n = model.system.dimension;
+  const n = model.stateNames.length;
   const count = statsE.length;
   const t = new Float64Array(count);
   const d = new Float64Array(count);

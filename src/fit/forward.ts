@@ -7,7 +7,6 @@
 import { CalorbitError } from "../errors.js";
 import { resolveScenario } from "../scenario/resolve.js";
 import { simulate } from "../run/simulate.js";
-import { simulateColumn } from "../run/simulateColumn.js";
 import { setPath } from "../sweep/spec.js";
 import type { ThermalCase } from "../model/thermalCase.js";
 import type { ObservedQuantity, Observations } from "./observations.js";
@@ -86,9 +85,9 @@ export function modelCurve(settings: ForwardSettings, values: ArrayLike<number>)
   const thermal = caseFor(settings, values);
   const out = settings.output;
   if (thermal.column) {
-    const col = simulateColumn(thermal, thermal.column, { relativeTolerance: Math.max(settings.relativeTolerance, 1e-12), samples: settings.samples });
+    const col = simulate(thermal, { relativeTolerance: Math.max(settings.relativeTolerance, 1e-12), samples: settings.samples });
     if (out.kind === "state") throw outputMismatch(out, "surface or depth=<length> for a conduction column");
-    const value = out.kind === "depth" ? col.series.depths[0]!.temperatureK : col.series.temperatureK;
+    const value = out.kind === "depth" ? col.series.depths![0]!.temperatureK : col.series.temperatureK;
     return { timeSeconds: col.series.timeSeconds, value, periodic: true };
   }
   if (out.kind === "depth") throw outputMismatch(out, "a depth only with a conduction column (body.column)");

@@ -61,6 +61,12 @@ export interface SlabModel extends ModelCommon {
   kind: "slab";
   heatStore: SlabStore;
   system: OdeSystem;
+  /**
+   * Cells with no exchange: one system per cell. The Jacobian of `system` is then diagonal, and the
+   * periodic solve runs cell by cell (cost linear in the cells, where the dense variational
+   * equations of the whole state cost about N³).
+   */
+  independentCells?: readonly OdeSystem[];
   /** τ = C/(4εσT³) at the mean-flux equilibrium, s. */
   radiativeTimeSeconds: number;
   /** max |∂f/∂y| over the cycle × the cycle length in E: about the cycle over τ. */
@@ -147,10 +153,15 @@ export function buildThermalModel(thermal: ThermalCase): ThermalModel {
     case "slab": {
       const properties: SurfaceProperties = { ...thermal.surface, heatCapacityJPerM2K: store.heatCapacityJPerM2K };
       let system: OdeSystem;
+      let independentCells: OdeSystem[] | undefined;
       switch (exchange.kind) {
         case "none":
           // One cell: the lumped balance; several independent cells: one slab each, integrated together.
-          system = cells.length === 1 ? new LumpedBalance(orbit, properties, cells[0]!.forcing) : new SlabCells(orbit, properties, cells, null);
+          if (cells.length === 1) system = new LumpedBalance(orbit, properties, cells[0]!.forcing);
+          else {
+            system = new SlabCells(orbit, properties, cells, null);
+            independentCells = cells.map((cell) => new LumpedBalance(orbit, properties, cell.forcing));
+          }
           break;
         case "dayNight": {
           const balance = new DayNightBalance(orbit, properties, thermal.star.luminosityW, exchange);
@@ -166,6 +177,7 @@ export function buildThermalModel(thermal: ThermalCase): ThermalModel {
         system,
         radiativeTimeSeconds: radiativeTimeSeconds(store.heatCapacityJPerM2K, thermal.surface.emissivity, scaleK),
         stiffness: 0,
+        ...(independentCells ? { independentCells } : {}),
       };
       model.stiffness = stiffnessOf(system, surface.cycleOrbits, model.equilibriumAt);
       return model;

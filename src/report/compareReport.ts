@@ -8,8 +8,10 @@ import { resolvedScenarioRecord } from "./document.js";
 import { duration, fixed } from "./format.js";
 import { CAUTION } from "./text.js";
 
-function rowsOf(c: Comparison): Array<{ label: string; s: StateSummary } | { label: string; error: string }> {
-  const out: Array<{ label: string; s: StateSummary } | { label: string; error: string }> = [];
+type Row = Pick<StateSummary, "temperature" | "equilibrium" | "lagSeconds" | "timeInRange">;
+
+function rowsOf(c: Comparison): Array<{ label: string; s: Row } | { label: string; error: string }> {
+  const out: Array<{ label: string; s: Row } | { label: string; error: string }> = [];
   for (const row of c.rows) {
     if (!row.simulation) {
       out.push({ label: row.regime, error: row.error ?? "failed" });
@@ -67,7 +69,7 @@ export function compareCsv(resolved: ResolvedScenario, c: Comparison): string {
     `# calorbit ${VERSION}`,
     `# scenario (SI units): ${JSON.stringify(resolvedScenarioRecord(resolved))}`,
     `# compare: one temperature and one equilibrium column per regime (and per hemisphere for daynight) on a shared time axis of ${c.spanOrbits} orbit(s)`,
-    ["time_s", ...columns.flatMap((col) => [`T_${col.name}_K`, `Teq_${col.name}_K`])].join(","),
+    ["time_s", ...columns.flatMap((col) => [`temperature_${col.name}_K`, `equilibrium_${col.name}_K`])].join(","),
   ];
   for (let j = 0; j < c.timeSeconds.length; j++) {
     lines.push([c.timeSeconds[j]!.toPrecision(10), ...columns.flatMap((col) => [col.temperatureK[j]!.toPrecision(10), col.equilibriumK[j]!.toPrecision(10)])].join(","));

@@ -4,7 +4,7 @@
  */
 import { CalorbitError } from "../errors.js";
 import { heatStoreOf } from "../model/heatStore.js";
-import type { ThermalCase } from "../model/thermalCase.js";
+import type { ColumnSpec, ThermalCase } from "../model/thermalCase.js";
 import type { ResolvedScenario } from "../scenario/resolve.js";
 import type { Simulation } from "../run/simulate.js";
 import { VERSION } from "../version.js";
@@ -51,19 +51,46 @@ export function resolvedScenarioRecord(resolved: ResolvedScenario) {
   };
 }
 
+/** One cell's columns in the JSON series (surfaces of several cells). */
+export interface CellSeriesRecord {
+  name: string;
+  temperatureK: number[];
+  equilibriumK: number[];
+  absorbedWPerM2: number[];
+}
+
+export interface SeriesRecord {
+  timeSeconds: number[];
+  meanAnomalyRad: number[];
+  trueAnomalyRad: number[];
+  distanceM: number[];
+  stellarFluxWPerM2: number[];
+  absorbedWPerM2: number[];
+  temperatureK: number[];
+  equilibriumK: number[];
+  /** Every cell (when there are several; the top-level columns are cell 0's). */
+  cells?: CellSeriesRecord[];
+  /** Conduction column: the temperature at the requested depths. */
+  depths?: { depthM: number; temperatureK: number[] }[];
+}
+
 export interface ResultDocument {
   calorbit: { version: string };
   scenario: ReturnType<typeof resolvedScenarioRecord>;
+  /** Conduction column: its specification in SI units. */
+  column?: ColumnSpec;
   summary: Simulation["summary"];
   solver: Simulation["solver"];
-  series?: Record<string, number[]>;
+  series?: SeriesRecord;
 }
 
 /** Builds the JSON result; `withSeries` adds the columnar series (x = time in s). */
 export function resultDocument(resolved: ResolvedScenario, sim: Simulation, withSeries: boolean): ResultDocument {
+  const store = heatStoreOf(resolved.thermal);
   const doc: ResultDocument = {
     calorbit: { version: VERSION },
     scenario: resolvedScenarioRecord(resolved),
+    ...(store.kind === "column" ? { column: store.column } : {}),
     summary: sim.summary,
     solver: sim.solver,
   };
@@ -79,11 +106,15 @@ export function resultDocument(resolved: ResolvedScenario, sim: Simulation, with
       temperatureK: Array.from(s.temperatureK),
       equilibriumK: Array.from(s.equilibriumK),
     };
-    for (const state of s.states.slice(1)) {
-      doc.series[`temperature_${state.name}K`] = Array.from(state.temperatureK);
-      doc.series[`equilibrium_${state.name}K`] = Array.from(state.equilibriumK);
-      doc.series[`absorbed_${state.name}WPerM2`] = Array.from(state.absorbedWPerM2);
+    if (s.states.length > 1) {
+      doc.series.cells = s.states.map((st) => ({
+        name: st.name,
+        temperatureK: Array.from(st.temperatureK),
+        equilibriumK: Array.from(st.equilibriumK),
+        absorbedWPerM2: Array.from(st.absorbedWPerM2),
+      }));
     }
+    if (s.depths) doc.series.depths = s.depths.map((d) => ({ depthM: d.depthM, temperatureK: Array.from(d.temperatureK) }));
   }
   return doc;
 }

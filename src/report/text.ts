@@ -92,7 +92,9 @@ export function summaryText(resolved: ResolvedScenario, sim: Simulation, options
   const lines: string[] = [`calorbit ${VERSION} — ${resolved.thermal.name}`, ...describeScenario(resolved), ""];
   const heading: Record<typeof solver.mode, string> = {
     periodic: "Periodic steady state",
-    seasonal: `Seasonal cycle (spin not commensurate with the orbit: ${solver.orbitsIntegrated} orbits integrated from the first guess; statistics of the last; the cycle does not close exactly, so neither does the energy budget)`,
+    seasonal: s.seasonal
+      ? `Seasonal cycle (spin not commensurate with the orbit: ${solver.orbitsIntegrated} orbits integrated from the first guess; statistics over the last ${s.seasonal.orbits}, the beat of spin and orbit, whose orbit means range from ${fixed(s.seasonal.orbitMeanK.minK, 2)} K to ${fixed(s.seasonal.orbitMeanK.maxK, 2)} K; no cycle closes exactly, so neither does the energy budget)`
+      : `Seasonal cycle (spin not commensurate with the orbit)`,
     transient: `Transient from ${fixed(sim.series.temperatureK[0]!, 2)} K over ${solver.orbitsIntegrated} orbits (statistics of the last orbit)`,
   };
   lines.push(heading[solver.mode]);
@@ -105,7 +107,7 @@ export function summaryText(resolved: ResolvedScenario, sim: Simulation, options
   const rows: [string, TemperatureStats][] =
     s.day && s.night
       ? [["day", s.day.temperature], ["day T_eq", s.day.equilibrium], ["night", s.night.temperature], ["night T_eq", s.night.equilibrium]]
-      : [["temperature", s.temperature], ["equilibrium", s.equilibrium]];
+      : [[s.depthProfile ? "surface" : "temperature", s.temperature], ["equilibrium", s.equilibrium]];
   for (const [label, t] of rows) lines.push(row(label, t));
   if (options.celsius) for (const [label, t] of rows) lines.push(rowC(label, t));
   if (s.solarDaySeconds !== undefined) {
@@ -114,22 +116,59 @@ export function summaryText(resolved: ResolvedScenario, sim: Simulation, options
   if (s.cycleSeconds > P * 1.000001) lines.push(`  cycle       ${sig(s.cycleSeconds / P, 3)} orbits (the spin–orbit resonance repeats)`);
   // A lag that would print as 0.000, a flat temperature called "circular", a multi-orbit cycle called "the orbit": words that say what the number is.
   lines.push(`  lag of maximum after periastron   ${lagWords(s, resolved.thermal.orbit.eccentricity)}`);
-  lines.push(`  damping ratio (T swing / Teq swing)   ${fixed(s.dampingRatio, 4)}${s.day ? " (dayside)" : ""}`);
-  lines.push(`  radiative time τ = C/(4εσT³)   ${duration(s.radiativeTimeSeconds)}, τ/P = ${sig(s.tauOverPeriod)}`);
+  lines.push(
+    s.dampingRatio === null
+      ? `  damping ratio (T swing / Teq swing)   none (${s.notes?.dampingRatio ?? "not defined here"})`
+      : `  damping ratio (T swing / Teq swing)   ${fixed(s.dampingRatio, 4)}${s.day ? " (dayside)" : ""}`,
+  );
+  if (s.radiativeTimeSeconds !== null && s.tauOverPeriod !== null) {
+    lines.push(`  radiative time τ = C/(4εσT³)   ${duration(s.radiativeTimeSeconds)}, τ/P = ${sig(s.tauOverPeriod)}`);
+  }
+  if (s.skinDepths && s.thermalInertiaSurface !== undefined) {
+    lines.push(
+      `  column      ${solver.layers} layers; thermal inertia at the surface ${sig(s.thermalInertiaSurface)} J m⁻² K⁻¹ s⁻½`,
+      `  skin depth  ${s.skinDepths.diurnalM !== null ? `diurnal ${sig(s.skinDepths.diurnalM)} m, ` : ""}orbital ${sig(s.skinDepths.orbitalM)} m`,
+    );
+  }
   if (s.timeInRange) {
     const w = s.timeInRange;
     lines.push(
       `  time in ${fixed(w.lowK, 2)}–${fixed(w.highK, 2)} K${options.celsius ? ` (${fixed(w.lowK - ZERO_CELSIUS_K, 2)}–${fixed(w.highK - ZERO_CELSIUS_K, 2)} °C)` : ""}   ${fixed(100 * w.fraction, 2)} % ${cycleWords(P, s.cycleSeconds)} (${duration(w.seconds)})`,
     );
   }
-  lines.push(
-    `  energy   absorbed ${fixed(s.meanAbsorbedWPerM2, 3)} W m⁻², emitted ${fixed(s.meanEmittedWPerM2, 3)} W m⁻², residual ${s.energyBalanceResidual.toExponential(1)}`,
-  );
+  if (s.meanAbsorbedWPerM2 !== null && s.meanEmittedWPerM2 !== null && s.energyBalanceResidual !== null) {
+    const interior = s.depthProfile ? " (with interior flux)" : "";
+    lines.push(
+      `  energy   absorbed ${fixed(s.meanAbsorbedWPerM2, 3)} W m⁻²${interior}, emitted ${fixed(s.meanEmittedWPerM2, 3)} W m⁻², residual ${s.energyBalanceResidual.toExponential(1)}`,
+    );
+  } else if (s.day && s.night) {
+    lines.push(
+      `  energy   per hemisphere: day absorbs ${fixed(s.day.meanAbsorbedWPerM2, 3)} W m⁻², night ${fixed(s.night.meanAbsorbedWPerM2, 3)} W m⁻²; no whole-body budget (${s.notes?.energyBalanceResidual ?? ""})`,
+    );
+  } else {
+    lines.push(`  energy   no balance residual (${s.notes?.energyBalanceResidual ?? "not a budget"})`);
+  }
   lines.push(`  Wien peak   ${sig(s.wienPeakAtMaxM * 1e6, 4)} µm at T max, ${sig(s.wienPeakAtMinM * 1e6, 4)} µm at T min`);
-  const shooting = solver.mode === "periodic" ? `${solver.iterations} shooting iterations, ` : "";
-  lines.push(
-    `  solver   ${solver.integrator}, ${shooting}${solver.orbitsIntegrated} orbits integrated, ${solver.steps} steps, ${solver.evaluations} evaluations, tolerance ${solver.requestedTolerance}`,
-  );
+  if (solver.integrator === "crank-nicolson") {
+    lines.push(
+      `  solver   Crank–Nicolson, ${solver.stepsPerCycle} steps per cycle, ${solver.iterations} cycles to the periodic state, ${solver.orbitsIntegrated} orbits integrated (periodicity residual ${(solver.periodicityResidual ?? NaN).toExponential(1)} ≤ tolerance ${solver.requestedTolerance})`,
+    );
+  } else {
+    const shooting = solver.mode === "periodic" ? `${solver.iterations} shooting iterations, ` : "";
+    lines.push(
+      `  solver   ${solver.integrator}, ${shooting}${solver.orbitsIntegrated} orbits integrated, ${solver.steps} steps, ${solver.evaluations} evaluations, tolerance ${solver.requestedTolerance}`,
+    );
+  }
+  if (s.depthProfile) {
+    lines.push("", "Depth profile", "     depth         min         max        mean");
+    const rows = s.depthProfile;
+    const stride = Math.max(1, Math.ceil(rows.length / 16));
+    rows.forEach((r, i) => {
+      if (i % stride === 0 || i === rows.length - 1) {
+        lines.push(`  ${sig(r.depthM, 3).padStart(8)} m ${fixed(r.minK, 2).padStart(9)} K ${fixed(r.maxK, 2).padStart(9)} K ${fixed(r.meanK, 2).padStart(9)} K`);
+      }
+    });
+  }
   lines.push("", CAUTION);
   return lines.join("\n") + "\n";
 }

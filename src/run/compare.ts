@@ -4,6 +4,7 @@
  * reason instead of stopping the others.
  */
 import { CalorbitError } from "../errors.js";
+import { heatStoreOf } from "../model/heatStore.js";
 import type { Regime, ThermalCase } from "../model/thermalCase.js";
 import { simulate, type Simulation, type SimulateOptions } from "./simulate.js";
 import { buildThermalModel, gcd } from "../model/build.js";
@@ -33,6 +34,11 @@ export interface Comparison {
 }
 
 export function compareRegimes(thermal: ThermalCase, regimes: readonly Regime[], options: SimulateOptions & { samples: number }): Comparison {
+  if (heatStoreOf(thermal).kind === "column") {
+    // Each regime of a column case is its own column solve at its own tolerance; compare keeps to slabs.
+    const error = "this case has a conduction column (body.column), and compare takes slab surfaces (body.heatCapacity or body.layer); run each regime of a column with calorbit run";
+    return { rows: regimes.map((regime) => ({ regime, error })), timeSeconds: new Float64Array(0), spanOrbits: 1 };
+  }
   const cycles = regimes.map((regime) => {
     try {
       return buildThermalModel({ ...thermal, regime }).cycleOrbits;

@@ -136,9 +136,7 @@ function fromParsed(s: ParsedScenario, raw: unknown): ResolvedScenario {
   if (column !== undefined && (s.body.heatCapacity !== undefined || s.body.layer !== undefined)) {
     problem("body.column", "either a column or body.heatCapacity / body.layer, not both");
   } else if (column !== undefined) {
-    // The column stores the heat; the lumped slot only has to be a valid placeholder (the
-    // forcing and cycle still come from the lumped model), and reports show the column instead.
-    heatCapacity = 1;
+    // The column stores the heat: the case has no slab heat capacity (its heat store is the column).
     heatCapacityOrigin = { kind: "column" };
     if (column.profile === undefined && column.conductivity === undefined && column.thermalInertia === undefined) {
       problem("body.column", "a thermalInertia, a conductivity, or a depth profile");
@@ -227,7 +225,7 @@ function fromParsed(s: ParsedScenario, raw: unknown): ResolvedScenario {
     surface: {
       albedo: s.body.albedo,
       emissivity: s.body.emissivity ?? 1,
-      heatCapacityJPerM2K: heatCapacity,
+      ...(column === undefined ? { heatCapacityJPerM2K: heatCapacity } : {}),
       internalFluxWPerM2: s.body.internalFlux ?? 0,
       ...(incidence !== undefined ? { albedoIncidence: { a: incidence.a, b: incidence.b } } : {}),
     },

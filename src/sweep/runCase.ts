@@ -5,10 +5,9 @@
  */
 import { CalorbitError, formatProblem } from "../errors.js";
 import { resolveScenario } from "../scenario/resolve.js";
-import { DEFAULT_RELATIVE_TOLERANCE, simulate } from "../run/simulate.js";
-import { columnToleranceFor, simulateColumn } from "../run/simulateColumn.js";
+import { columnToleranceFor, DEFAULT_RELATIVE_TOLERANCE, simulate } from "../run/simulate.js";
+import { heatStoreOf } from "../model/heatStore.js";
 import type { ThermalCase } from "../model/thermalCase.js";
-import type { TemperatureStats } from "../analysis/summarise.js";
 import { simulateZonal, zonalCaseOf } from "../run/zonal.js";
 import { observeMap } from "../run/observeMap.js";
 import { MAP_DEFAULT_TOLERANCE } from "../run/simulateMap.js";
@@ -31,26 +30,26 @@ export interface SweepDefinition {
 
 /** Summary metrics written for every case, with their units in the names. */
 export const METRIC_COLUMNS = [
-  "T_min_K",
-  "T_max_K",
-  "T_mean_K",
-  "T_swing_K",
-  "Teq_min_K",
-  "Teq_max_K",
-  "Teq_mean_K",
+  "temperature_min_K",
+  "temperature_max_K",
+  "temperature_mean_K",
+  "temperature_swing_K",
+  "equilibrium_min_K",
+  "equilibrium_max_K",
+  "equilibrium_mean_K",
   "lag_s",
   "damping_ratio",
   "tau_over_period",
   "period_s",
   "time_in_range_fraction",
-  "energy_residual",
+  "energy_balance_residual",
   "integrator",
   "iterations",
   "orbits",
   "evaluations",
-  "skin_depth_diurnal_m",
-  "skin_depth_orbital_m",
-  "T_deep_mean_K",
+  "skin_depths_diurnal_m",
+  "skin_depths_orbital_m",
+  "deep_mean_K",
   "global_mean_K",
   "equator_pole_contrast_K",
   "ice_edge_min_deg",
@@ -174,46 +173,36 @@ function failureReason(err: unknown): string {
   return err instanceof Error ? err.message : String(err);
 }
 
-/** The summary fields a lumped surface and a column's surface share. */
-interface SurfaceSummary {
-  temperature: TemperatureStats;
-  equilibrium: TemperatureStats;
-  lagSeconds: number | null;
-  dampingRatio: number;
-  periodSeconds: number;
-  timeInRange?: { fraction: number };
-  energyBalanceResidual: number;
-}
-
-function surfaceMetrics(s: SurfaceSummary) {
+/**
+ * One case's metrics: the summary under the naming rule (the JSON name in snake_case, unit last).
+ * A conduction column has no single τ (tau_over_period empty) and fills the skin depths and the
+ * deepest layer's mean; its "iterations" are the cycles run to the periodic state.
+ */
+function metricsOf(thermal: ThermalCase, relativeTolerance: number): Metrics {
+  const column = heatStoreOf(thermal).kind === "column";
+  const sim = simulate(thermal, { relativeTolerance: column ? columnToleranceFor(relativeTolerance, DEFAULT_RELATIVE_TOLERANCE) : relativeTolerance, samples: 0 });
+  const s = sim.summary;
   return {
-    T_min_K: s.temperature.minK,
-    T_max_K: s.temperature.maxK,
-    T_mean_K: s.temperature.meanK,
-    T_swing_K: s.temperature.swingK,
-    Teq_min_K: s.equilibrium.minK,
-    Teq_max_K: s.equilibrium.maxK,
-    Teq_mean_K: s.equilibrium.meanK,
+    temperature_min_K: s.temperature.minK,
+    temperature_max_K: s.temperature.maxK,
+    temperature_mean_K: s.temperature.meanK,
+    temperature_swing_K: s.temperature.swingK,
+    equilibrium_min_K: s.equilibrium.minK,
+    equilibrium_max_K: s.equilibrium.maxK,
+    equilibrium_mean_K: s.equilibrium.meanK,
     lag_s: s.lagSeconds,
     damping_ratio: s.dampingRatio,
+    tau_over_period: s.tauOverPeriod,
     period_s: s.periodSeconds,
     time_in_range_fraction: s.timeInRange ? s.timeInRange.fraction : null,
-    energy_residual: s.energyBalanceResidual,
-  };
-}
-
-function lumpedMetrics(thermal: ThermalCase, relativeTolerance: number): Metrics {
-  const sim = simulate(thermal, { relativeTolerance, samples: 0 });
-  return {
-    ...surfaceMetrics(sim.summary),
-    tau_over_period: sim.summary.tauOverPeriod,
+    energy_balance_residual: s.energyBalanceResidual,
     integrator: sim.solver.integrator,
     iterations: sim.solver.iterations,
     orbits: sim.solver.orbitsIntegrated,
     evaluations: sim.solver.evaluations,
-    skin_depth_diurnal_m: null,
-    skin_depth_orbital_m: null,
-    T_deep_mean_K: null,
+    skin_depths_diurnal_m: s.skinDepths?.diurnalM ?? null,
+    skin_depths_orbital_m: s.skinDepths?.orbitalM ?? null,
+    deep_mean_K: s.deepMeanK ?? null,
     ...NO_CLIMATE,
     ...NO_MAP,
   };
@@ -245,26 +234,26 @@ function mapMetrics(thermal: ThermalCase, relativeTolerance: number): Metrics {
     meanK += sim.history.grid.areaFraction[k]! * sim.cellMeanK[k]!;
   }
   return {
-    T_min_K: minK,
-    T_max_K: maxK,
-    T_mean_K: meanK,
-    T_swing_K: maxK - minK,
-    Teq_min_K: null,
-    Teq_max_K: null,
-    Teq_mean_K: null,
+    temperature_min_K: minK,
+    temperature_max_K: maxK,
+    temperature_mean_K: meanK,
+    temperature_swing_K: maxK - minK,
+    equilibrium_min_K: null,
+    equilibrium_max_K: null,
+    equilibrium_mean_K: null,
     lag_s: null,
     damping_ratio: null,
     tau_over_period: sim.radiativeTimeSeconds / thermal.orbit.periodSeconds,
     period_s: thermal.orbit.periodSeconds,
     time_in_range_fraction: null,
-    energy_residual: sim.energy.residual,
+    energy_balance_residual: sim.energy.residual,
     integrator: `cells (${sim.mode})`,
     iterations: sim.iterations,
     orbits: sim.orbitsIntegrated,
     evaluations: sim.work.evaluations,
-    skin_depth_diurnal_m: null,
-    skin_depth_orbital_m: null,
-    T_deep_mean_K: null,
+    skin_depths_diurnal_m: null,
+    skin_depths_orbital_m: null,
+    deep_mean_K: null,
     ...NO_CLIMATE,
     flux_ratio_max: o.phase?.maxFluxRatio ?? null,
     flux_ratio_min: o.phase?.minFluxRatio ?? null,
@@ -296,26 +285,26 @@ function zonalMetrics(thermal: ThermalCase): Metrics {
   const first = sim.climates[0]!;
   const s = first.summary;
   return {
-    T_min_K: s.temperature.minK,
-    T_max_K: s.temperature.maxK,
-    T_mean_K: s.temperature.meanK,
-    T_swing_K: s.temperature.swingK,
-    Teq_min_K: null,
-    Teq_max_K: null,
-    Teq_mean_K: null,
+    temperature_min_K: s.temperature.minK,
+    temperature_max_K: s.temperature.maxK,
+    temperature_mean_K: s.temperature.meanK,
+    temperature_swing_K: s.temperature.swingK,
+    equilibrium_min_K: null,
+    equilibrium_max_K: null,
+    equilibrium_mean_K: null,
     lag_s: null,
     damping_ratio: null,
     tau_over_period: null,
     period_s: s.periodSeconds,
     time_in_range_fraction: null,
-    energy_residual: s.energyBalanceResidual,
+    energy_balance_residual: s.energyBalanceResidual,
     integrator: "sdirk2",
     iterations: first.solver.newtonIterations,
     orbits: first.solver.orbitsIntegrated,
     evaluations: null,
-    skin_depth_diurnal_m: null,
-    skin_depth_orbital_m: null,
-    T_deep_mean_K: null,
+    skin_depths_diurnal_m: null,
+    skin_depths_orbital_m: null,
+    deep_mean_K: null,
     global_mean_K: s.globalMeanK,
     equator_pole_contrast_K: s.equatorPoleContrastK,
     ice_edge_min_deg: s.iceEdge?.minDeg ?? null,
@@ -325,28 +314,6 @@ function zonalMetrics(thermal: ThermalCase): Metrics {
     habitable_fraction: s.habitableFraction,
     snowball: s.snowball ? 1 : 0,
     climates: sim.climates.length,
-    ...NO_MAP,
-  };
-}
-
-/**
- * A conduction column's row: its surface in the shared columns (no single τ, so tau_over_period is
- * empty; "iterations" counts its cycles and "evaluations" its time steps), plus the skin depths and the deepest layer's mean.
- */
-function columnMetrics(thermal: ThermalCase, relativeTolerance: number): Metrics {
-  const col = simulateColumn(thermal, thermal.column!, { relativeTolerance: columnToleranceFor(relativeTolerance, DEFAULT_RELATIVE_TOLERANCE), samples: 0 });
-  const s = col.summary;
-  return {
-    ...surfaceMetrics(s),
-    tau_over_period: null,
-    integrator: "crank-nicolson",
-    iterations: col.solver.cycles,
-    orbits: Math.round((col.solver.cycles * s.cycleSeconds) / s.periodSeconds),
-    evaluations: col.solver.stepsPerCycle * col.solver.cycles,
-    skin_depth_diurnal_m: s.skinDepths.diurnalM,
-    skin_depth_orbital_m: s.skinDepths.orbitalM,
-    T_deep_mean_K: s.depthProfile.at(-1)?.meanK ?? null,
-    ...NO_CLIMATE,
     ...NO_MAP,
   };
 }
@@ -364,9 +331,7 @@ export function caseCells(def: SweepDefinition, c: CaseValues): Cell[] {
       ? zonalMetrics(thermal)
       : thermal.regime === "map"
         ? mapMetrics(thermal, def.relativeTolerance)
-        : thermal.column
-        ? columnMetrics(thermal, def.relativeTolerance)
-        : lumpedMetrics(thermal, def.relativeTolerance);
+        : metricsOf(thermal, def.relativeTolerance);
   } catch (err) {
     status = `error: ${failureReason(err)}`.replace(/\s+/g, " ");
   }

@@ -41,14 +41,13 @@ async function runCommand(scenarioPath: string | undefined, flags: RunFlags): Pr
     if (!(options.transient.startK > 0)) throw usage("--from", JSON.stringify(flags.from), "a temperature > 0 K");
   }
   // Loaded here, not at start-up: the scenario reader, the solvers and the writers.
-  const [{ loadScenario, writeFileAtomic }, { simulate }, { columnToleranceFor, simulateColumn }, { seriesCsv }, { resultDocument }, { columnCsv, columnDocument, columnText }, { temperatureSvg }, { summaryText }, { resultWarnings }] =
+  const [{ loadScenario, writeFileAtomic }, { columnToleranceFor, simulate }, { heatStoreOf }, { seriesCsv }, { resultDocument }, { temperatureSvg }, { summaryText }, { resultWarnings }] =
     await Promise.all([
       import("../io.js"),
       import("../../run/simulate.js"),
-      import("../../run/simulateColumn.js"),
+      import("../../model/heatStore.js"),
       import("../../report/csv.js"),
       import("../../report/document.js"),
-      import("../../report/columnReport.js"),
       import("../../report/svg.js"),
       import("../../report/text.js"),
       import("../../analysis/sanity.js"),
@@ -75,18 +74,11 @@ async function runCommand(scenarioPath: string | undefined, flags: RunFlags): Pr
   if (flags.mapCsv !== undefined || flags.mapAt !== undefined) {
     throw usage(flags.mapCsv !== undefined ? "--map-csv" : "--map-at", JSON.stringify(flags.mapCsv ?? flags.mapAt), "only for a scenario with regime: map");
   }
-  if (resolved.thermal.column) {
+  if (heatStoreOf(resolved.thermal).kind === "column") {
     if (options.transient) throw usage("--from", JSON.stringify(flags.from ?? ""), "no transient mode for a conduction column yet (it runs to its periodic state)");
-    if (flags.svg !== undefined) throw usage("--svg", JSON.stringify(flags.svg), "no SVG chart for a conduction column yet (write the series with --csv)");
     if (integrator !== undefined) throw usage("--integrator", JSON.stringify(integrator), "none for a conduction column (its own Crank–Nicolson stepper solves it)");
     // The column's periodicity and energy tolerance: 1e-6 unless --tolerance says otherwise.
-    const columnTolerance = columnToleranceFor(options.relativeTolerance!, DEFAULT_RELATIVE_TOLERANCE);
-    const col = simulateColumn(resolved.thermal, resolved.thermal.column, { relativeTolerance: columnTolerance, samples: options.samples ?? 1000 });
-    report(resultWarnings(resolved.thermal, col.summary, { periodic: true, singleState: false }));
-    if (flags.csv !== undefined) writeFileAtomic(flags.csv, columnCsv(resolved, col));
-    if (flags.json) out(JSON.stringify({ ...columnDocument(resolved, col, flags.series === true), warnings }, null, 2) + "\n");
-    else out(columnText(resolved, col));
-    return;
+    options.relativeTolerance = columnToleranceFor(options.relativeTolerance!, DEFAULT_RELATIVE_TOLERANCE);
   }
   const sim = simulate(resolved.thermal, options);
   report(resultWarnings(resolved.thermal, sim.summary, { periodic: sim.solver.mode === "periodic", singleState: sim.series.states.length === 1 }));

@@ -2,7 +2,6 @@
 import type { Command } from "commander";
 import { readFileSync } from "node:fs";
 import { CalorbitError } from "../../errors.js";
-import type { simulateColumn } from "../../run/simulateColumn.js";
 import { integerFlag, usage } from "../flags.js";
 import { out } from "../output.js";
 
@@ -13,10 +12,9 @@ interface ViewFlags {
 async function viewCommand(path: string | undefined, flags: ViewFlags): Promise<void> {
   const port = integerFlag("--port", flags.port, 0, 65535);
   // The engine, the writers and the HTTP server load only when the viewer starts.
-  const [{ columnDocument }, { resultDocument }, { simulateColumn }, { simulate }, { parseSweepText, sweepTableFromRecords }, { loadScenarioDocument }, { startViewServer }, { resolveScenario }] = await Promise.all([
-    import("../../report/columnReport.js"),
+  const [{ heatStoreOf }, { resultDocument }, { simulate }, { parseSweepText, sweepTableFromRecords }, { loadScenarioDocument }, { startViewServer }, { resolveScenario }] = await Promise.all([
+    import("../../model/heatStore.js"),
     import("../../report/document.js"),
-    import("../../run/simulateColumn.js"),
     import("../../run/simulate.js"),
     import("../../view/sweepData.js"),
     import("../io.js"),
@@ -46,11 +44,11 @@ async function viewCommand(path: string | undefined, flags: ViewFlags): Promise<
     } else if (resolved.thermal.regime === "map") {
       const [{ mapViewDocument }, { observeMap }, { readPassband }] = await Promise.all([import("../../report/mapReport.js"), import("../../run/observeMap.js"), import("./runMap.js")]);
       resultJson = JSON.stringify(mapViewDocument(resolved, observeMap(readPassband(resolved, file), { samples: 400 })));
-    } else if (resolved.thermal.column) {
-      const col = simulateColumn(resolved.thermal, resolved.thermal.column, { samples: 400 });
-      resultJson = JSON.stringify({ kind: "column", ...columnDocument(resolved, col, true), heatMap: columnHeatMap(col) });
     } else {
-      resultJson = JSON.stringify(resultDocument(resolved, simulate(resolved.thermal, { samples: 2000 }), true));
+      // One result for every heat store; a column's also carries its depth × time map (its series is
+      // interpolated from the column's steps: 400 points are plenty).
+      const sim = simulate(resolved.thermal, { samples: heatStoreOf(resolved.thermal).kind === "column" ? 400 : 2000 });
+      resultJson = JSON.stringify(sim.heatMap ? { kind: "column", ...resultDocument(resolved, sim, true), heatMap: sim.heatMap } : resultDocument(resolved, sim, true));
     }
   }
   const viewer = await startViewServer(resultJson, port);
@@ -75,11 +73,6 @@ function isSweepFile(path: string): boolean {
   } catch {
     return false;
   }
-}
-
-/** Temperature against depth and time for the viewer's heat map: layer centres × the cycle's steps (thinned). */
-function columnHeatMap(col: ReturnType<typeof simulateColumn>) {
-  return { depthsM: col.summary.depthProfile.map((r) => r.depthM), timesSeconds: col.heatMap.timesSeconds, temperatureK: col.heatMap.temperatureK };
 }
 
 /** A result file from `run --json --series` (not a scenario written as JSON). */
