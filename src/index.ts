@@ -24,3 +24,12 @@ export { resultDocument } from "./report/document.js";
 export { seriesCsv } from "./report/csv.js";
 export { summaryText, CAUTION } from "./report/text.js";
 export { VERSION } from "./version.js";
+// Fitting observed series (calorbit fit without the CLI): read the data, set keys free, fit, sample, report.
+export { parseObservations, dataFormatFor, type Observations, type ObservedQuantity, type ObservationOptions, type DataFormat } from "./fit/observations.js";
+export { parseFreeParameter, TIME_OFFSET_KEY, LOG_SCALE_KEYS, type FreeParameter } from "./fit/parameters.js";
+export { ForwardModel, parseModelOutput, defaultModelOutput, checkModelOutput, modelCurve, caseFor, type ForwardSettings, type ModelOutput, type ModelCurve } from "./fit/forward.js";
+export { fitBest, type BestFit, type FitOptions, type ParameterEstimate } from "./fit/bestFit.js";
+export { runEnsemble, autocorrelationTime, type EnsembleState, type EnsembleOptions, type LogProbabilityBatch } from "./fit/ensemble.js";
+export { logPosterior, initialWalkers, summarisePosterior, type PosteriorSummary, type PosteriorEstimate } from "./fit/posterior.js";
+export { fitText, fitDocument, residualCsv, MODEL_ADEQUACY_CAUTION, type FitReportInput } from "./fit/report.js";
+export { fitSvg, type FitFigure } from "./fit/svg.js";

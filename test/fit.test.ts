@@ -12,6 +12,7 @@ import { parseFreeParameter } from "../src/fit/parameters.js";
 import { autocorrelationTime, runEnsemble } from "../src/fit/ensemble.js";
 import { CalorbitError, formatProblem } from "../src/errors.js";
 import { resolveScenario } from "../src/scenario/resolve.js";
+import * as calorbit from "../src/index.js";
 
 const DAY = 86400;
 
@@ -289,5 +290,56 @@ describe("lunar night-time cooling (self-consistency)", () => {
     const fit = fitBest(new ForwardModel({ scenario: homogeneous, parameters, output: { spec: "surface", kind: "surface", quantity: "temperature" }, relativeTolerance: 1e-4, samples: 300 }, obs), parameters, { starts: 1 });
     expect(fit.converged).toBe(true);
     expect(Math.abs(fit.values[0]! - 55) / 55).toBeLessThan(0.15);
+  });
+});
+
+/**
+ * A phase curve against a published relation, through the library entry point. A tidally locked
+ * planet on a circular orbit re-radiating what it absorbs where it absorbs it (no transport) emits
+ * I ∝ cos z from each point, so its bolometric flux ratio is (2/3)(1 − A)(R_p/a)² Φ(α) with the
+ * Lambert phase function Φ(α) = [sin α + (π − α) cos α]/π (Russell 1916, ApJ 43, 173; the 2/3 dayside
+ * of Cowan & Agol 2011, ApJ 729, 54, with ε = 0). Data from that formula (not from calorbit) with a
+ * 1 % σ are fitted for the Bond albedo; the grid's error must fall at second order in the cell size.
+ */
+describe("phase-curve fit (map regime, flux ratio)", () => {
+  function lambertFit(longitudes: number, latitudes: number): { albedo: number; sigma: number; reducedChiSquare: number } {
+    const scenario = {
+      name: "Lambert sphere (test, invented)",
+      star: { radius: "1 Rsun", temperature: "5772 K", mass: "1 Msun" },
+      orbit: { semiMajorAxis: "0.05 au", eccentricity: 0 },
+      body: { albedo: 0.1, emissivity: 1, heatCapacity: "1e7 J/m2/K", radius: "1 Rjup" },
+      regime: "map",
+      spin: { orbitRatio: "1:1" },
+      map: { longitudes, latitudes },
+      observer: { inclination: "90 deg", argumentOfPeriastron: "90 deg", passband: "bolometric" },
+    };
+    const { thermal } = calorbit.resolveScenario(structuredClone(scenario));
+    const period = thermal.orbit.periodSeconds;
+    const ratio = thermal.bodyRadiusM! / thermal.orbit.semiMajorAxisM;
+    const albedo = 0.3;
+    const peak = (2 / 3) * (1 - albedo) * ratio ** 2;
+    // Transit at t = 0 (true anomaly 90° − ω = 0), so the phase angle is α = arccos(−cos 2πt/P);
+    // the points within 0.2 rad of the occultation (where the star hides the planet) are left out.
+    const times = Float64Array.from({ length: 40 }, (_, i) => ((i + 0.5) * period) / 40).filter((t) => Math.abs((2 * Math.PI * t) / period - Math.PI) > 0.2);
+    const value = Float64Array.from(times, (t) => {
+      const alpha = Math.acos(-Math.cos((2 * Math.PI * t) / period));
+      return (peak * (Math.sin(alpha) + (Math.PI - alpha) * Math.cos(alpha))) / Math.PI;
+    });
+    const n = times.length;
+    const obs: calorbit.Observations = { timeSeconds: times, value, sigma: new Float64Array(n).fill(0.01 * peak), quantity: "fluxRatio", columns: { time: "time_s", value: "flux_ratio", sigma: "sigma" }, timeUnit: "s", lines: new Int32Array(n) };
+    const parameters = [calorbit.parseFreeParameter("body.albedo=0..0.9", period)];
+    const output = calorbit.parseModelOutput(calorbit.defaultModelOutput("fluxRatio"), () => null);
+    const fit = calorbit.fitBest(new calorbit.ForwardModel({ scenario, parameters, output, relativeTolerance: 1e-6, samples: 100 }, obs), parameters, { starts: 1 });
+    return { albedo: fit.values[0]!, sigma: fit.estimates[0]!.sigma!, reducedChiSquare: fit.reducedChiSquare };
+  }
+
+  it("recovers the Bond albedo of a Lambert-sphere phase curve, the grid's error falling at second order", () => {
+    const coarse = lambertFit(12, 6);
+    const fine = lambertFit(24, 12);
+    expect(Math.abs(fine.albedo - 0.3)).toBeLessThan(fine.sigma);
+    expect(fine.reducedChiSquare).toBeLessThan(1);
+    const ratio = Math.abs(coarse.albedo - 0.3) / Math.abs(fine.albedo - 0.3);
+    expect(ratio).toBeGreaterThan(3);
+    expect(ratio).toBeLessThan(6);
   });
 });

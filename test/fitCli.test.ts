@@ -24,6 +24,19 @@ orbit: { semiMajorAxis: 0.15 au, eccentricity: 0.3, period: 20 d }
 body: { albedo: 0.3, emissivity: 0.95, heatCapacity: 1 MJ/m2/K }
 `;
 
+// A locked giant on an eccentric orbit seen at i = 80°: its slab's heat capacity delays and smooths the phase curve.
+const MAP_SCENARIO = `
+name: Fit map world (invented)
+star: { radius: 0.9 Rsun, temperature: 5400 K, mass: 0.9 Msun }
+orbit: { semiMajorAxis: 0.06 au, eccentricity: 0.3 }
+body: { albedo: 0.3, emissivity: 1, heatCapacity: 1 MJ/m2/K, radius: 1.1 Rjup }
+regime: map
+spin: { orbitRatio: "1:1" }
+map: { longitudes: 12, latitudes: 6 }
+observer: { inclination: 80 deg, argumentOfPeriastron: 30 deg, passband: { file: band.csv } }
+`;
+const BAND = "# an invented response\nwavelength_um,response\n3.5,0\n4.0,1\n5.0,1\n5.5,0\n";
+
 function write(name: string, text: string): string {
   const path = join(dir, name);
   writeFileSync(path, text);
@@ -87,6 +100,39 @@ describe("calorbit fit", () => {
     expect(r.status).toBe(2);
     expect(r.stderr).toContain("--residuals");
     expect(readFileSync(two, "utf8")).toBe("time_d,temperature_K\n0,300\n1,290\n");
+    // A flux ratio is dimensionless: temperature data against a map, or flux data against a slab, are refused by name.
+    const map = write("map-refused.yaml", MAP_SCENARIO);
+    write("band.csv", BAND);
+    const temperatures = write("temperatures.csv", "time_d,temperature_K\n0,300\n1,290\n2,280\n");
+    r = await calorbit("fit", map, "--data", temperatures, "--free", "body.albedo");
+    expect(r.status).toBe(2);
+    expect(r.stderr).toBe("calorbit: --data: given a temperature column for a map scenario; allowed: a flux_ratio column (the dimensionless planet-to-star flux in the observer's passband, not a temperature) with --model-output fluxRatio\n");
+    const fluxes = write("fluxes.csv", "time_d,flux_ratio\n0,1e-4\n1,2e-4\n2,3e-4\n");
+    r = await calorbit("fit", scenario, "--data", fluxes, "--free", "body.albedo");
+    expect(r.status).toBe(2);
+    expect(r.stderr).toBe("calorbit: --model-output: given \"fluxRatio\"; allowed: surface, day, night or depth=<length>: fluxRatio needs regime: map with an observer (this scenario's regime is global)\n");
+  });
+
+  it("fits a map's phase curve (flux_ratio data, the passband read from its file) back to the values that made it", async () => {
+    write("band.csv", BAND);
+    const truth = write("map-truth.yaml", MAP_SCENARIO.replace("albedo: 0.3", "albedo: 0.15").replace("heatCapacity: 1 MJ/m2/K", "heatCapacity: 3 MJ/m2/K"));
+    const csv = join(dir, "map-truth.csv");
+    expect((await calorbit("run", truth, "--csv", csv, "--samples", "41", "--tolerance", "1e-9")).status).toBe(0);
+    const lines = readFileSync(csv, "utf8").split("\n").filter((l) => l !== "" && !l.startsWith("#"));
+    const header = lines[0]!.split(",");
+    const it = header.indexOf("time_s");
+    const iF = header.indexOf("flux_ratio");
+    expect(iF).toBeGreaterThan(0);
+    const rows = lines.slice(1, -1).map((l) => `${l.split(",")[it]},${l.split(",")[iF]},1e-5`);
+    const data = write("map-data.csv", ["time_s,flux_ratio,sigma", ...rows].join("\n") + "\n");
+    const scenario = write("map-world.yaml", MAP_SCENARIO);
+    const r = await calorbit("fit", scenario, "--data", data, "--free", "body.heatCapacity=0.2 MJ/m2/K..20 MJ/m2/K", "--free", "body.albedo=0..0.6", "--tolerance", "1e-6", "--samples", "100", "--starts", "1", "--json");
+    expect(r.stderr).toBe("");
+    expect(r.status).toBe(0);
+    const [c, a] = JSON.parse(r.stdout).parameters;
+    // Noise-free data from the same model at a finer tolerance: back to well inside the 1e-5 σ's uncertainty.
+    expect(Math.abs(c.value - 3e6)).toBeLessThan(0.1 * c.sigma);
+    expect(Math.abs(a.value - 0.15)).toBeLessThan(0.1 * a.sigma);
   });
 
   it("resumes a torn chain to exactly the uninterrupted chain, and refuses another fit's chain", async () => {

@@ -7,6 +7,7 @@
 import { CalorbitError } from "../errors.js";
 import { resolveScenario } from "../scenario/resolve.js";
 import { simulate } from "../run/simulate.js";
+import { observeMap } from "../run/observeMap.js";
 import { setPath } from "../sweep/spec.js";
 import type { ThermalCase } from "../model/thermalCase.js";
 import type { ObservedQuantity, Observations } from "./observations.js";
@@ -16,12 +17,14 @@ import { offsetSeconds, scenarioValue, TIME_OFFSET_KEY, type FreeParameter } fro
  * Which series of the model is compared with the data:
  *  - "surface": the surface temperature (state 0 of a lumped case, a column's surface);
  *  - a state name ("day", "night" for the daynight regime);
- *  - "depth=<length>": a conduction column's temperature at that depth (e.g. "depth=0.3 m").
- * A flux ratio output joins this list with the map regime: the data's quantity is checked against it.
+ *  - "depth=<length>": a conduction column's temperature at that depth (e.g. "depth=0.3 m");
+ *  - "fluxRatio": the map regime's planet-to-star flux ratio in the observer's passband
+ *    (dimensionless; the planet's own emission, partly hidden during the occultation; no transit).
+ * The data's quantity (a temperature or a flux ratio) is checked against the output's.
  */
 export interface ModelOutput {
   spec: string;
-  kind: "surface" | "state" | "depth";
+  kind: "surface" | "state" | "depth" | "fluxRatio";
   state?: string;
   depthM?: number;
   quantity: ObservedQuantity;
@@ -30,6 +33,7 @@ export interface ModelOutput {
 export function parseModelOutput(spec: string, depthToMetres: (text: string) => number | null): ModelOutput {
   const s = spec.trim();
   if (s === "surface") return { spec: s, kind: "surface", quantity: "temperature" };
+  if (s === FLUX_RATIO_OUTPUT) return { spec: s, kind: "fluxRatio", quantity: "fluxRatio" };
   const depth = /^depth\s*=\s*(.+)$/.exec(s);
   if (depth) {
     const m = depthToMetres(depth[1]!);
@@ -42,8 +46,16 @@ export function parseModelOutput(spec: string, depthToMetres: (text: string) => 
   }
   if (/^[a-z]+$/.test(s)) return { spec: s, kind: "state", state: s, quantity: "temperature" };
   throw new CalorbitError("USAGE", `--model-output: given ${JSON.stringify(spec)}`, [
-    { path: "--model-output", given: JSON.stringify(spec), allowed: 'surface, day, night (daynight regime) or depth=<length> (a column), e.g. "depth=0.3 m"' },
+    { path: "--model-output", given: JSON.stringify(spec), allowed: 'surface, day, night (daynight regime), depth=<length> (a column), e.g. "depth=0.3 m", or fluxRatio (map regime)' },
   ]);
+}
+
+/** The --model-output of a map's phase curve. */
+export const FLUX_RATIO_OUTPUT = "fluxRatio";
+
+/** The output compared when --model-output is not given: the surface for temperatures, the flux ratio for flux-ratio data. */
+export function defaultModelOutput(quantity: ObservedQuantity): string {
+  return quantity === "fluxRatio" ? FLUX_RATIO_OUTPUT : "surface";
 }
 
 export interface ForwardSettings {
@@ -84,6 +96,8 @@ export function caseFor(settings: ForwardSettings, values: ArrayLike<number>): T
 export function modelCurve(settings: ForwardSettings, values: ArrayLike<number>): ModelCurve {
   const thermal = caseFor(settings, values);
   const out = settings.output;
+  checkModelOutput(out, thermal);
+  if (thermal.regime === "map") return mapCurve(settings, thermal);
   if (thermal.column) {
     const col = simulate(thermal, { relativeTolerance: Math.max(settings.relativeTolerance, 1e-12), samples: settings.samples });
     if (out.kind === "state") throw outputMismatch(out, "surface or depth=<length> for a conduction column");
@@ -99,6 +113,66 @@ export function modelCurve(settings: ForwardSettings, values: ArrayLike<number>)
     value = state.temperatureK;
   }
   return { timeSeconds: sim.series.timeSeconds, value, periodic: sim.solver.mode === "periodic" };
+}
+
+/**
+ * Refuses a model output the scenario cannot give, before any fit runs (the fit treats a case that
+ * fails to solve as a wall, so these must be said first): the zonal climate, a map compared with
+ * anything but its flux ratio, a flux ratio from another regime, a map without its observer or
+ * without a repeating cycle. (A map's missing radii are the scenario's to say: `telescopeOf`.)
+ */
+export function checkModelOutput(out: ModelOutput, thermal: ThermalCase): void {
+  if (thermal.climate) {
+    throw new CalorbitError("USAGE", "the zonal climate cannot be fitted yet", [
+      { path: "regime", given: "zonal", allowed: "global, dayside, substellar, daynight, band, point or map (a fit of the zonal climate is not built yet)" },
+    ]);
+  }
+  if (thermal.regime !== "map") {
+    if (out.kind === "fluxRatio") throw outputMismatch(out, `surface, day, night or depth=<length>: fluxRatio needs regime: map with an observer (this scenario's regime is ${thermal.regime})`);
+    return;
+  }
+  if (out.kind !== "fluxRatio") {
+    throw new CalorbitError("USAGE", "a map is fitted through its flux ratio", [
+      {
+        path: "--data",
+        given: "a temperature column for a map scenario",
+        allowed: "a flux_ratio column (the dimensionless planet-to-star flux in the observer's passband, not a temperature) with --model-output fluxRatio",
+      },
+    ]);
+  }
+  if (!thermal.observer) {
+    throw new CalorbitError("USAGE", "a flux-ratio fit needs an observer", [
+      { path: "observer", given: "missing", allowed: "the observer's inclination, argumentOfPeriastron and passband (the flux ratio is what it receives)" },
+    ]);
+  }
+  const ratio = thermal.spin?.ratio;
+  if (thermal.spin && (!ratio || ratio.orbit > MAP_MAX_CYCLE_ORBITS)) {
+    throw new CalorbitError("USAGE", "a map without a repeating cycle", [
+      {
+        path: "spin",
+        given: ratio ? `${ratio.spin}:${ratio.orbit}` : "a rotation rate",
+        allowed: `a spin.orbitRatio p:q with q ≤ ${MAP_MAX_CYCLE_ORBITS} (e.g. "1:1", "3:2"): the data are placed on the repeating cycle of the phase curve`,
+      },
+    ]);
+  }
+}
+
+/** The longest p:q cycle (in orbits) the map solves as a periodic state (src/run/simulateMap.ts). */
+const MAP_MAX_CYCLE_ORBITS = 16;
+
+/**
+ * The map's phase curve: the flux ratio at the reported samples of its periodic cycle. A map whose
+ * spin shares no cycle with the orbit is integrated forward and never repeats exactly, so the data
+ * could not be placed on it: refused.
+ */
+function mapCurve(settings: ForwardSettings, thermal: ThermalCase): ModelCurve {
+  const observed = observeMap(thermal, { relativeTolerance: settings.relativeTolerance, samples: settings.samples });
+  if (observed.sim.mode !== "periodic") {
+    throw new CalorbitError("INVALID_ARGUMENT", "a map without a repeating cycle", [
+      { path: "spin", given: "a rotation that shares no cycle with the orbit", allowed: 'a spin.orbitRatio p:q with q ≤ 16 (e.g. "1:1", "3:2"): data times are placed on the repeating cycle' },
+    ]);
+  }
+  return { timeSeconds: observed.sim.history.timeSeconds, value: observed.curve!.fluxRatio, periodic: true };
 }
 
 function outputMismatch(out: ModelOutput, allowed: string): CalorbitError {
@@ -157,11 +231,16 @@ export class ForwardModel {
 
   constructor(settings: ForwardSettings, observations: Observations) {
     if (observations.quantity !== settings.output.quantity) {
+      const fluxData = observations.quantity === "fluxRatio";
       throw new CalorbitError("USAGE", "the data and the model output measure different things", [
         {
           path: "--model-output",
-          given: `${JSON.stringify(settings.output.spec)} (a temperature) for data with ${observations.columns.value}`,
-          allowed: "a temperature output (surface, day, night, depth=…) for temperature data; flux ratios need the map regime, which calorbit does not have yet",
+          given: fluxData
+            ? `${JSON.stringify(settings.output.spec)} (a temperature, K) for data in ${observations.columns.value} (a dimensionless flux ratio)`
+            : `${JSON.stringify(settings.output.spec)} (a dimensionless flux ratio) for data in ${observations.columns.value} (a temperature)`,
+          allowed: fluxData
+            ? "fluxRatio (a map scenario with an observer) for flux_ratio data"
+            : "a temperature output (surface, day, night, depth=…) for temperature data; fluxRatio needs a flux_ratio column (dimensionless, not kelvin)",
         },
       ]);
     }

@@ -4,15 +4,17 @@
  * file), writes the reports. The fitting itself lives in src/fit/.
  */
 import { existsSync, openSync, closeSync, readFileSync, writeSync, ftruncateSync } from "node:fs";
-import { resolve as resolvePath } from "node:path";
+import { dirname, resolve as resolvePath } from "node:path";
 import { availableParallelism } from "node:os";
 import { Worker } from "node:worker_threads";
 import { CalorbitError } from "../../errors.js";
 import { resolveScenario } from "../../scenario/resolve.js";
 import { parseQuantity } from "../../scenario/units.js";
+import { parsePassbandTable } from "../../scenario/passbandFile.js";
 import { buildThermalModel } from "../../model/build.js";
 import { fitBest } from "../../fit/bestFit.js";
-import { caseFor, ForwardModel, parseModelOutput, type ForwardSettings } from "../../fit/forward.js";
+import { telescopeOf } from "../../run/observeMap.js";
+import { caseFor, checkModelOutput, defaultModelOutput, ForwardModel, parseModelOutput, type ForwardSettings } from "../../fit/forward.js";
 import { dataFormatFor, parseObservations, type Observations } from "../../fit/observations.js";
 import { parseFreeParameter } from "../../fit/parameters.js";
 import { runEnsemble, type EnsembleState } from "../../fit/ensemble.js";
@@ -27,7 +29,7 @@ export interface FitFlags {
   data?: string;
   free?: string[];
   timeUnit?: string;
-  modelOutput: string;
+  modelOutput?: string;
   starts: string;
   seed: string;
   tolerance: string;
@@ -81,24 +83,26 @@ export async function fitCommand(scenarioPath: string, flags: FitFlags): Promise
   );
 
   const scenario = loadScenarioDocument(scenarioPath).document as Record<string, unknown>;
+  inlinePassband(scenario, scenarioPath);
   const base = resolveScenario(structuredClone(scenario)).thermal;
-  const model = buildThermalModel(base);
-  const cycleSeconds = base.orbit.periodSeconds * model.cycleOrbits;
+  // The map has its own cell-by-cell solve: its cycle is the spin's p:q (q orbits), the others' the model's.
+  const cycleOrbits = base.regime === "map" ? (base.spin?.ratio?.orbit ?? 1) : buildThermalModel(base).cycleOrbits;
+  const cycleSeconds = base.orbit.periodSeconds * cycleOrbits;
   const parameters = flags.free.map((a) => parseFreeParameter(a, cycleSeconds));
   const keys = new Set<string>();
   for (const p of parameters) {
     if (keys.has(p.key)) throw usage("--free", JSON.stringify(p.key), "each key once");
     keys.add(p.key);
   }
-  const output = parseModelOutput(flags.modelOutput, (text) => {
-    const q = parseQuantity("length", /^[+-]?[\d.]+([eE][+-]?\d+)?$/.test(text.trim()) ? Number(text) : text);
-    return q.ok ? q.valueSI : null;
-  });
   if (!existsSync(flags.data)) throw usage("--data", JSON.stringify(flags.data), "an existing file");
   const observations = parseObservations(readFileSync(flags.data, "utf8"), {
     format: dataFormatFor(flags.data),
     source: flags.data,
     ...(flags.timeUnit !== undefined ? { timeUnit: flags.timeUnit } : {}),
+  });
+  const output = parseModelOutput(flags.modelOutput ?? defaultModelOutput(observations.quantity), (text) => {
+    const q = parseQuantity("length", /^[+-]?[\d.]+([eE][+-]?\d+)?$/.test(text.trim()) ? Number(text) : text);
+    return q.ok ? q.valueSI : null;
   });
   const settings: ForwardSettings = { scenario, parameters, output, relativeTolerance: tolerance, samples };
   const forward = new ForwardModel(settings, observations);
@@ -111,6 +115,10 @@ export async function fitCommand(scenarioPath: string, flags: FitFlags): Promise
       caseFor(settings, values);
     }
   });
+  // And the output must be one this scenario gives (a fit treats a case that fails as a wall, so say it now).
+  const centreCase = caseFor(settings, centre);
+  checkModelOutput(output, centreCase);
+  if (centreCase.regime === "map") telescopeOf(centreCase);
   const fit = fitBest(forward, parameters, { starts, seed });
 
   let posterior: PosteriorSummary | undefined;
@@ -134,6 +142,27 @@ export async function fitCommand(scenarioPath: string, flags: FitFlags): Promise
   if (flags.residuals !== undefined) out(`residuals written to ${flags.residuals}\n`);
   if (flags.chain !== undefined) out(`chain written to ${flags.chain}\n`);
   if (flags.svg !== undefined) out(`figure written to ${flags.svg}\n`);
+}
+
+/**
+ * A passband given as a file (relative to the scenario) is read once and written into the document as
+ * its table, so every model run (and every posterior worker) has it without touching the disk.
+ */
+function inlinePassband(scenario: Record<string, unknown>, scenarioPath: string): void {
+  const observer = scenario["observer"] as { passband?: unknown } | undefined;
+  const band = observer?.passband as { file?: unknown } | undefined;
+  if (!observer || typeof band !== "object" || band === null || typeof band.file !== "string") return;
+  const path = resolvePath(dirname(scenarioPath), band.file);
+  let text: string;
+  try {
+    text = readFileSync(path, "utf8");
+  } catch {
+    throw new CalorbitError("SCENARIO_INVALID", "the passband file cannot be read", [
+      { path: "observer.passband.file", given: band.file, allowed: "a readable CSV of wavelength_<unit>,response (relative to the scenario)" },
+    ]);
+  }
+  const table = parsePassbandTable(text, band.file);
+  observer.passband = { wavelengths: table.wavelengthM.map((m) => `${m} m`), response: [...table.response] };
 }
 
 /** The best-fit model on a fine grid over the data's time span (for the figure). */
