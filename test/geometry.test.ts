@@ -60,6 +60,24 @@ describe("day/night hemispheres", () => {
     expect(sim.summary.temperature).toEqual(sim.summary.day!.temperature);
   });
 
+  it("gives the no-redistribution limit at ε = 0: the night side at 0 K exactly, the day side as the formula", () => {
+    // Cowan & Agol 2011, eqs. 4–5 at ε = 0: T_day = T₀ (2/3)^¼ = 355.67 K flux-weighted, T₀ (1/2)^¼ =
+    // 330.99 K for a uniform dayside (../shared/REFERENCES.md); T_night = T₀ (ε/4)^¼ = 0.
+    for (const [weighting, factor, published] of [["flux", 2 / 3, 355.67], ["uniform", 1 / 2, 330.99]] as const) {
+      const sim = simulate(withExchange(nominalCase({ e: 0, heatCapacity: 1e7 }), 0, weighting), { samples: 50 });
+      expect(Math.abs(sim.summary.day!.temperature.meanK / (t0 * factor ** 0.25) - 1)).toBeLessThan(1e-8);
+      expect(sim.summary.day!.temperature.meanK).toBeCloseTo(published, 2);
+      expect(sim.summary.night!.temperature).toEqual({ minK: 0, maxK: 0, meanK: 0, swingK: 0 });
+      expect(sim.summary.night!.wienPeakAtMaxM).toBeNull();
+      expect(sim.series.states[1]!.temperatureK.every((t) => t === 0)).toBe(true);
+      // A uniform dayside is still an energy budget: half the sphere absorbs and emits, the other nothing.
+      if (weighting === "uniform") expect(Math.abs(sim.summary.energyBalanceResidual!)).toBeLessThan(1e-8);
+    }
+    // An internal flux alone warms the night side to (q/σ)^¼ (common practice): no longer dark.
+    const warmed = simulate({ ...withExchange(nominalCase({ e: 0, heatCapacity: 1e7 }), 0, "uniform"), surface: { ...nominalCase({}).surface, heatCapacityJPerM2K: 1e7, internalFluxWPerM2: 2 } }, { samples: 0 });
+    expect(warmed.summary.night!.temperature.meanK).toBeCloseTo((2 / STEFAN_BOLTZMANN) ** 0.25, 6);
+  });
+
   it("puts both sides at the global temperature when ε = 1", () => {
     const base = nominalCase({ e: 0.3, heatCapacity: 5e7, albedo: 0.3 });
     const global = simulate(base, { samples: 0 });

@@ -106,20 +106,23 @@ describe.skipIf(!haveBrowser)("the viewer in chromium", () => {
     await page.press("#num-e", "Enter");
     await page.waitForSelector('[data-testid="problem"]:not([hidden])');
     expect(await text("problem")).toBe("eccentricity: given \"1.2\"; allowed: 0 ≤ e < 1");
+    // The last case's charts stay, greyed, and its numbers are withdrawn.
+    expect(await page.getAttribute(".charts", "class")).toContain("stale");
+    expect(await text("t-max")).toBe("—");
     await page.click("#reset");
     await page.waitForFunction(() => new URL(location.href).search === "");
     await expectRunNumbers();
     expect(await page.isHidden('[data-testid="problem"]')).toBe(true);
   });
 
-  it("says what a regime needs, greys the previous charts, and computes once the control is set", async () => {
+  it("runs day/night at recirculation 0 (the night side at 0 K), and warms the night once heat is carried", async () => {
     await page.selectOption("#in-regime", "daynight");
-    await page.waitForSelector('[data-testid="problem"]:not([hidden])');
-    expect(await text("problem")).toContain("Set recirculation above");
-    expect(await page.getAttribute(".charts", "class")).toContain("stale");
-    expect(await text("t-max")).toBe("—");
-    expect((await exposed()).summary).toBeNull();
-    expect(await page.getAttribute('.param[data-key="recirculation"]', "class")).toContain("needed");
+    await page.waitForFunction(() => new URL(location.href).searchParams.get("regime") === "daynight");
+    await page.waitForFunction(() => (window as unknown as { calorbitViewer?: { summary?: { night?: unknown } | null } }).calorbitViewer?.summary?.night !== undefined);
+    expect(await page.isHidden('[data-testid="problem"]')).toBe(true);
+    // Cowan & Agol 2011, eq. 5 at ε = 0: no heat reaches the night side, T_night = 0.
+    expect((await exposed()).summary!.night!.temperature.maxK).toBe(0);
+    expect(Number(await text("night-mean"))).toBe(0);
     await page.fill("#num-recirculation", "0.3");
     await page.press("#num-recirculation", "Enter");
     await page.waitForSelector('[data-testid="problem"]', { state: "hidden" });

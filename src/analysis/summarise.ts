@@ -36,9 +36,9 @@ export interface StateSummary {
   meanAbsorbedWPerM2: number;
   /** Time-mean emitted power εσT⁴, W m⁻². */
   meanEmittedWPerM2: number;
-  /** Wien peak wavelengths at T min and T max, m. */
-  wienPeakAtMinM: number;
-  wienPeakAtMaxM: number;
+  /** Wien peak wavelengths at T min and T max, m; null at 0 K (a cell nothing heats emits nothing). */
+  wienPeakAtMinM: number | null;
+  wienPeakAtMaxM: number | null;
 }
 
 /** Why a summary number is null (or what it is not), keyed by the field's name. */
@@ -224,8 +224,8 @@ function stateSummary(
     meanAbsorbedWPerM2:
       (corners ? explicitTimeMean(statsE, (E) => model.absorbedAt(E, state), timePerAnomaly) : timeMean(absorbed, dtdE)) + model.internalFluxWPerM2,
     meanEmittedWPerM2: timeMean(emitted, dtdE),
-    wienPeakAtMinM: wienPeakWavelengthM(temperature.minK),
-    wienPeakAtMaxM: wienPeakWavelengthM(temperature.maxK),
+    wienPeakAtMinM: temperature.minK > 0 ? wienPeakWavelengthM(temperature.minK) : null,
+    wienPeakAtMaxM: temperature.maxK > 0 ? wienPeakWavelengthM(temperature.maxK) : null,
   };
   if (input.windowK) {
     const [lowK, highK] = input.windowK;

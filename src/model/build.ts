@@ -13,7 +13,7 @@ import { LumpedBalance, radiativeTimeSeconds, type SurfaceProperties } from "../
 import { equilibriumTemperatureFrom } from "../physics/flux.js";
 import { checkOrbit, meanMotion } from "../physics/orbit.js";
 import type { OdeSystem } from "../solve/system.js";
-import type { Exchange } from "./exchange.js";
+import { exchangeCarriesHeat, type Exchange } from "./exchange.js";
 import { heatStoreOf, type ColumnStore, type HeatStore, type SlabStore } from "./heatStore.js";
 import { regimeEntry, type RegimeEntry } from "./regimes.js";
 import { SlabCells } from "./slabCells.js";
@@ -167,6 +167,9 @@ export function buildThermalModel(thermal: ThermalCase): ThermalModel {
           const balance = new DayNightBalance(orbit, properties, thermal.star.luminosityW, exchange);
           system = balance;
           common.equilibriumAt = (E, out) => balance.equilibrium(E, out);
+          // No recirculation and no exchange coefficient: the hemispheres do not touch, and each
+          // is solved on its own (an unheated night side stays at 0 K, the published limit).
+          if (!exchangeCarriesHeat(exchange)) independentCells = cells.map((cell) => new LumpedBalance(orbit, properties, cell.forcing));
           break;
         }
       }

@@ -148,7 +148,11 @@ export function summaryText(resolved: ResolvedScenario, sim: Simulation, options
   } else {
     lines.push(`  energy   no balance residual (${s.notes?.energyBalanceResidual ?? "not a budget"})`);
   }
-  lines.push(`  Wien peak   ${sig(s.wienPeakAtMaxM * 1e6, 4)} µm at T max, ${sig(s.wienPeakAtMinM * 1e6, 4)} µm at T min`);
+  const wien = (m: number | null) => (m === null ? "none (0 K)" : `${sig(m * 1e6, 4)} µm`);
+  lines.push(`  Wien peak   ${wien(s.wienPeakAtMaxM)} at T max, ${wien(s.wienPeakAtMinM)} at T min`);
+  if (s.night && s.night.temperature.maxK === 0) {
+    lines.push("  night side  0 K throughout: no recirculation, no exchange coefficient and no internal flux carry heat to it (the no-redistribution limit)");
+  }
   if (solver.integrator === "crank-nicolson") {
     lines.push(
       `  solver   Crank–Nicolson, ${solver.stepsPerCycle} steps per cycle, ${solver.iterations} cycles to the periodic state, ${solver.orbitsIntegrated} orbits integrated (periodicity residual ${(solver.periodicityResidual ?? NaN).toExponential(1)} ≤ tolerance ${solver.requestedTolerance})`,

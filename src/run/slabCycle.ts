@@ -56,6 +56,12 @@ export function slabCycle(thermal: ThermalCase, model: SlabModel, request: Cycle
     let odeTol = 0;
     let integrator: IntegratorName | undefined;
     model.independentCells.forEach((system, i) => {
+      // A cell that nothing heats (a night side with no exchange and no internal flux) has the
+      // periodic state 0 K: radiative cooling alone only approaches it, so it is set, not shot.
+      if (isDark(model, i)) {
+        for (let k = 0; k < xs.length; k++) grids.dense.ys[k * n + i] = 0;
+        return;
+      }
       const result = solvePeriodic(
         {
           system,
@@ -246,12 +252,23 @@ function report(
   };
 }
 
-/** A cell with no heat source over the whole cycle cools toward 0 K: there is no periodic state to find. */
+/** True for a cell that nothing heats: no starlight over the cycle, no internal flux, no exchange into it. */
+export function isDark(model: SlabModel, cell: number): boolean {
+  return model.surface.cells[cell]!.forcing.meanAbsorbedWPerM2 <= 0 && !(model.internalFluxWPerM2 > 0) && !exchangeCarriesHeat(model.exchange);
+}
+
+/**
+ * A surface that nothing heats cools toward 0 K: there is no periodic state to find. One dark cell
+ * among independent lit cells is fine (it is 0 K, the night side's published limit); a dark
+ * single cell, or one the solver could not separate from its neighbours, is refused.
+ */
 function checkHeated(model: SlabModel, mode: SolverReport["mode"]): void {
-  if (mode === "transient" || model.internalFluxWPerM2 > 0 || exchangeCarriesHeat(model.exchange)) return;
-  for (const cell of model.surface.cells) {
-    if (cell.forcing.meanAbsorbedWPerM2 > 0) continue;
+  if (mode === "transient") return;
+  for (let i = 0; i < model.surface.cells.length; i++) {
+    if (!isDark(model, i)) continue;
+    const cell = model.surface.cells[i]!;
     if (model.surface.cells.length > 1) {
+      if (mode === "periodic" && model.independentCells && model.surface.cells.some((_, j) => !isDark(model, j))) continue;
       throw new CalorbitError("INVALID_ARGUMENT", `the ${cell.name} side has no heat source: give body.recirculation or body.exchangeCoefficient a value above 0 to carry heat from the day side, or body.internalFlux one above 0`, [
         { path: "body", given: "no recirculation, exchange coefficient or internal flux", allowed: "body.recirculation > 0, body.exchangeCoefficient > 0 or body.internalFlux > 0" },
       ]);

@@ -120,7 +120,7 @@ export const bodySchema = z
     internalFlux: quantity("flux", "Internal heat flux q; default 0", nonNegative("W/m2")).optional(),
     radius: quantity("length", "The body's radius (map: the planet's radius, for the flux an observer receives)", positive("m")).optional(),
     recirculation: boundedNumber(
-      "daynight: recirculation efficiency ε ∈ [0, 1], the fraction of absorbed power carried to the night side",
+      "daynight: recirculation efficiency ε ∈ [0, 1], the fraction of absorbed power carried to the night side; default 0 (no heat carried: without an exchange coefficient or internal flux the night side is at 0 K)",
       (r) => r >= 0 && r <= 1,
       "a number with 0 ≤ ε ≤ 1",
     ).optional(),
