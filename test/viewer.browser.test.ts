@@ -35,7 +35,7 @@ const text = (id: string) => page.textContent(`[data-testid="${id}"]`).then((t) 
 interface Exposed {
   mode: string;
   error: string | null;
-  summary: { temperature: { minK: number; maxK: number; meanK: number; swingK: number }; night?: unknown } | null;
+  summary: { temperature: { minK: number; maxK: number; meanK: number; swingK: number }; night?: { temperature: { maxK: number } } } | null;
   axisLabels: { temperature: string; orbit: string };
   curves: { label: string; stroke: string }[];
   renders: number;
