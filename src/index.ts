@@ -33,3 +33,5 @@ export { runEnsemble, autocorrelationTime, type EnsembleState, type EnsembleOpti
 export { logPosterior, initialWalkers, summarisePosterior, type PosteriorSummary, type PosteriorEstimate } from "./fit/posterior.js";
 export { fitText, fitDocument, residualCsv, MODEL_ADEQUACY_CAUTION, type FitReportInput } from "./fit/report.js";
 export { fitSvg, type FitFigure } from "./fit/svg.js";
+export { fitViewDocument, type FitViewDocument } from "./fit/view.js";
+export { pairDensity, chainColumns, type PairDensity } from "./fit/pairDensity.js";

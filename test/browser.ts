@@ -21,16 +21,29 @@ export function browserAvailable(what: string): boolean {
 }
 
 /** Starts `calorbit view [file] --port 0` and resolves with the server and the address it prints. */
-export function startView(file?: string): Promise<{ server: ChildProcess; url: string }> {
-  const server = spawn(process.execPath, [CLI, "view", ...(file !== undefined ? [file] : []), "--port", "0"], { stdio: ["ignore", "pipe", "pipe"] });
+export function startView(file?: string): Promise<{ server: ChildProcess; url: string; stdout: () => string }> {
+  return startServing(["view", ...(file !== undefined ? [file] : []), "--port", "0"]);
+}
+
+/**
+ * Starts a calorbit command that ends by serving the viewer (`view`, `fit --view`) and resolves with
+ * the process, the address it prints (on stdout, or on stderr when stdout holds a JSON document) and
+ * what it has written to stdout so far.
+ */
+export function startServing(args: string[]): Promise<{ server: ChildProcess; url: string; stdout: () => string }> {
+  const server = spawn(process.execPath, [CLI, ...args], { stdio: ["ignore", "pipe", "pipe"] });
   return new Promise((resolve, reject) => {
     let out = "";
-    server.stdout!.on("data", (chunk: Buffer) => {
-      out += chunk.toString();
-      const m = /(http:\/\/127\.0\.0\.1:\d+\/)/.exec(out);
-      if (m) resolve({ server, url: m[1]! });
-    });
-    server.on("exit", (code) => reject(new Error(`calorbit view exited (${code})`)));
+    let said = "";
+    const look = (chunk: Buffer, toStdout: boolean) => {
+      if (toStdout) out += chunk.toString();
+      said += chunk.toString();
+      const m = /(http:\/\/127\.0\.0\.1:\d+\/)/.exec(said);
+      if (m) resolve({ server, url: m[1]!, stdout: () => out });
+    };
+    server.stdout!.on("data", (chunk: Buffer) => look(chunk, true));
+    server.stderr!.on("data", (chunk: Buffer) => look(chunk, false));
+    server.on("exit", (code) => reject(new Error(`calorbit ${args[0]} exited (${code}): ${said.slice(-300)}`)));
   });
 }
 

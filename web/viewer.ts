@@ -12,6 +12,8 @@ import { startZonal } from "./zonal.js";
 import type { ZonalViewDocument } from "../src/report/zonalReport.js";
 import type { MapViewDocument } from "../src/report/mapReport.js";
 import { startSweep } from "./sweep.js";
+import { startFit } from "./fit.js";
+import type { FitViewDocument } from "../src/fit/view.js";
 
 async function start(): Promise<void> {
   const response = await fetch("result.json");
@@ -20,6 +22,7 @@ async function start(): Promise<void> {
   if (raw.kind === "column") return startColumn(raw as unknown as ColumnDoc);
   if (raw.kind === "map") return startMap(raw as unknown as MapViewDocument);
   if (raw.kind === "zonal") return startZonal(raw as unknown as ZonalViewDocument);
+  if (raw.kind === "fit") return startFit(raw as unknown as FitViewDocument);
   startLumped(raw as ResultDocument);
 }
 

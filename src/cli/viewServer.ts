@@ -74,3 +74,22 @@ export function startViewServer(resultJson: string, port: number): Promise<ViewS
     });
   });
 }
+
+/**
+ * Serves `resultJson` until SIGINT or SIGTERM, saying where through `say` (a command's stdout, or
+ * stderr when stdout holds a document).
+ */
+export async function serveUntilStopped(resultJson: string, port: number, say: (text: string) => void): Promise<void> {
+  const viewer = await startViewServer(resultJson, port);
+  say(`calorbit viewer at ${viewer.url}  (Ctrl-C stops it)\n`);
+  await new Promise<void>((resolve) => {
+    const stop = () => {
+      say("stopping the viewer\n");
+      void viewer.close().then(resolve);
+      // Keep-alive connections from a browser would hold close() open; do not wait for them.
+      viewer.server.closeAllConnections();
+    };
+    process.once("SIGINT", stop);
+    process.once("SIGTERM", stop);
+  });
+}

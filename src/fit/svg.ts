@@ -9,6 +9,7 @@ import type { BestFit } from "./bestFit.js";
 import type { Observations } from "./observations.js";
 import { secondsPerTimeUnit } from "./observations.js";
 import { siUnit, type FreeParameter } from "./parameters.js";
+import { chainColumns, pairDensity } from "./pairDensity.js";
 import type { SavedChain } from "./posterior.js";
 
 function escapeXml(text: string): string {
@@ -133,14 +134,7 @@ export function fitSvg(figure: FitFigure): string {
 /** Histograms on the diagonal, 2-D densities (binned, shaded by count) below it. */
 function pairPlot(parts: string[], chain: SavedChain["steps"], parameters: readonly FreeParameter[], box: Box, size: number): void {
   const p = parameters.length;
-  const column = (j: number) => {
-    const out: number[] = [];
-    for (const s of chain) for (const x of s.positions) out.push(x[j]!);
-    return out;
-  };
-  const cols = parameters.map((_q, j) => column(j));
-  const ranges = cols.map((c) => range(c));
-  const bins = 24;
+  const { bins, ranges, histograms, pairs } = pairDensity(chainColumns(chain, p));
   parts.push(`<text x="${box.x}" y="${box.y - 12}" font-size="14" font-weight="bold">posterior: histograms and pairwise densities</text>`);
   parts.push(`<g class="pairs">`);
   for (let row = 0; row < p; row++) {
@@ -149,23 +143,14 @@ function pairPlot(parts: string[], chain: SavedChain["steps"], parameters: reado
       parts.push(`<rect x="${cell.x}" y="${cell.y}" width="${cell.w}" height="${cell.h}" fill="none" stroke="#999"/>`);
       const [x0, x1] = ranges[col]!;
       if (row === col) {
-        const counts = new Array<number>(bins).fill(0);
-        for (const v of cols[col]!) counts[Math.min(bins - 1, Math.max(0, Math.floor(((v - x0) / (x1 - x0)) * bins)))]!++;
+        const counts = histograms[col]!;
         const max = Math.max(...counts, 1);
         counts.forEach((c, b) => {
           const h = (c / max) * (cell.h - 4);
           parts.push(`<rect x="${(cell.x + (b * cell.w) / bins).toFixed(1)}" y="${(cell.y + cell.h - h).toFixed(1)}" width="${(cell.w / bins).toFixed(1)}" height="${h.toFixed(1)}" fill="${CHART_COLOURS.temperature}" fill-opacity="0.7"/>`);
         });
       } else {
-        const [y0, y1] = ranges[row]!;
-        const counts = new Array<number>(bins * bins).fill(0);
-        const xs = cols[col]!;
-        const ys = cols[row]!;
-        for (let i = 0; i < xs.length; i++) {
-          const bx = Math.min(bins - 1, Math.max(0, Math.floor(((xs[i]! - x0) / (x1 - x0)) * bins)));
-          const by = Math.min(bins - 1, Math.max(0, Math.floor(((ys[i]! - y0) / (y1 - y0)) * bins)));
-          counts[by * bins + bx]!++;
-        }
+        const counts = pairs[row]![col]!;
         const max = Math.max(...counts, 1);
         counts.forEach((c, k) => {
           if (c === 0) return;

@@ -27,6 +27,8 @@ export function registerFit(program: Command): void {
     .option("--chain <file>", "with --posterior: the chain CSV (rerunning the same command resumes it)")
     .option("--burn-in <steps>", "steps dropped before the posterior summary (default: half)")
     .option("--workers <n>", "worker threads for the posterior (default: the number of cores)")
+    .option("--view", "then open the fit in the browser viewer (data, best fit, residuals, parameters, posterior pair plot) until Ctrl-C")
+    .option("--port <n>", "with --view: the viewer's port on 127.0.0.1 (0: a free one)", "0")
     .option("--quiet", "no progress")
     .addHelpText(
       "after",
@@ -35,7 +37,7 @@ Examples:
   calorbit fit scenarios/tessaly-night.yaml --data scenarios/tessaly-night.csv --samples 1000 \\
       --free "body.heatCapacity=0.005 MJ/m2/K..0.5 MJ/m2/K" --free body.albedo=0..0.6 --free "timeOffset=100 h..140 h"
   calorbit fit my.yaml --data night.csv --free "body.column.thermalInertia=10..1000" --json
-  calorbit fit my.yaml --data night.csv --free body.albedo --posterior 2000 --chain chain.csv --svg fit.svg`,
+  calorbit fit my.yaml --data night.csv --free body.albedo --posterior 2000 --chain chain.csv --svg fit.svg --view`,
     )
     .action(async (scenario: string, flags: FitFlags) => (await import("./fitAction.js")).fitCommand(scenario, flags));
 }

@@ -43,6 +43,8 @@ export interface FitFlags {
   burnIn?: string;
   workers?: string;
   quiet?: boolean;
+  view?: boolean;
+  port: string;
 }
 
 /** Refuses an output path that is one of the inputs (no output may overwrite an input). */
@@ -72,6 +74,8 @@ export async function fitCommand(scenarioPath: string, flags: FitFlags): Promise
   if (steps > 0 && flags.chain === undefined) throw usage("--chain", "missing", "with --posterior: the chain file to write (rerunning the same command resumes it)");
   if (steps === 0 && flags.chain !== undefined) throw usage("--chain", JSON.stringify(flags.chain), "only with --posterior N");
   const burnIn = flags.burnIn === undefined ? Math.floor(steps / 2) : integerFlag("--burn-in", flags.burnIn, 0, Math.max(0, steps - 1));
+  const port = integerFlag("--port", flags.port, 0, 65535);
+  if (flags.port !== "0" && !flags.view) throw usage("--port", JSON.stringify(flags.port), "only with --view");
   const workerCount = flags.workers === undefined ? Math.max(1, Math.min(availableParallelism(), 8)) : integerFlag("--workers", flags.workers, 1, 256);
   checkOutputs(
     [scenarioPath, flags.data],
@@ -130,18 +134,22 @@ export async function fitCommand(scenarioPath: string, flags: FitFlags): Promise
   const title = String((scenario as { name?: unknown }).name ?? scenarioPath);
   const report = { title, observations, fit, dataFile: flags.data, outputSpec: output.spec, ...(posterior ? { posterior } : {}) };
   if (flags.residuals !== undefined) writeFileAtomic(flags.residuals, residualCsv(observations, fit, parameters));
-  if (flags.svg !== undefined) {
-    const curve = fitCurve(settings, fit.values, observations);
-    writeFileAtomic(flags.svg, fitSvg({ title, observations, fit, parameters, curve, ...(chainSteps ? { chain: chainSteps.slice(posterior!.burnIn) } : {}) }));
-  }
+  const keptChain = chainSteps ? { chain: chainSteps.slice(posterior!.burnIn) } : {};
+  const curve = flags.svg !== undefined || flags.view ? fitCurve(settings, fit.values, observations) : null;
+  if (flags.svg !== undefined) writeFileAtomic(flags.svg, fitSvg({ title, observations, fit, parameters, curve: curve!, ...keptChain }));
   if (flags.json) {
     out(JSON.stringify(fitDocument(report), null, 2) + "\n");
-    return;
+  } else {
+    out(fitText(report));
+    if (flags.residuals !== undefined) out(`residuals written to ${flags.residuals}\n`);
+    if (flags.chain !== undefined) out(`chain written to ${flags.chain}\n`);
+    if (flags.svg !== undefined) out(`figure written to ${flags.svg}\n`);
   }
-  out(fitText(report));
-  if (flags.residuals !== undefined) out(`residuals written to ${flags.residuals}\n`);
-  if (flags.chain !== undefined) out(`chain written to ${flags.chain}\n`);
-  if (flags.svg !== undefined) out(`figure written to ${flags.svg}\n`);
+  if (flags.view) {
+    const [{ fitViewDocument }, { serveUntilStopped }] = await Promise.all([import("../../fit/view.js"), import("../viewServer.js")]);
+    // With --json the document owns stdout: the viewer's address goes to stderr.
+    await serveUntilStopped(JSON.stringify(fitViewDocument(report, { curve: curve!, parameters, ...keptChain })), port, flags.json ? err : out);
+  }
 }
 
 /**
