@@ -2,7 +2,8 @@
  * The map regime's benchmark figures (called by bench/bench.ts; also runnable alone with
  * `node dist/bench/mapBench.js`): a 36 × 18 map with heat capacity to its periodic state with a
  * 1,000-point phase curve (target < 1 s on one core), and the phase curve re-evaluated for a new
- * inclination and for a new passband without a new solve (target < 20 ms each).
+ * inclination and for a new passband without a new solve (target < 20 ms each; the passband's figure
+ * is the median over seven new passbands, as a viewer's slider makes them).
  * Answers are checked against closed forms: the sphere's orbit-mean absorbed flux
  * (1 − A) L / (16π a² √(1 − e²)) (Williams & Pollard 2002, eq. 3, with the sphere's factor 1/4)
  * and the emitted flux equal to it at the periodic state.
@@ -68,17 +69,43 @@ export function mapFigures(): { figures: Figure[]; wrong: string[] } {
   const tiltedMax = phaseCurveSummary(sim.history, tilted).maxFluxRatio;
   if (!(tiltedMax > 0 && tiltedMax < first.maxFluxRatio)) wrong.push(`map: a less inclined orbit should see a lower maximum (${tiltedMax} against ${first.maxFluxRatio})`);
 
-  const t2 = performance.now();
-  const redder = phaseCurve(sim.history, { ...telescope, band: new BandRadiance({ kind: "tophat", fromM: 7.5e-6, toM: 9.5e-6 }) });
-  const passbandMs = performance.now() - t2;
-  if (!(phaseCurveSummary(sim.history, redder).maxFluxRatio > first.maxFluxRatio)) wrong.push("map: the planet/star contrast should grow toward longer wavelengths");
+  // A new passband as the viewer's sliders make one: a new BandRadiance, then the phase curve. Each
+  // passband is new (nothing cached); the median of seven is the figure, the first is shown beside it
+  // (it includes the JIT compiling the band's code paths).
+  const passbandTimes: number[] = [];
+  const bandsUm = [
+    [7.5, 9.5],
+    [3.0, 4.0],
+    [5.5, 7.0],
+    [10, 12],
+    [15, 20],
+    [2.0, 2.5],
+    [8, 14],
+  ] as const;
+  for (const [fromUm, toUm] of bandsUm) {
+    const t2 = performance.now();
+    const curve = phaseCurve(sim.history, { ...telescope, band: new BandRadiance({ kind: "tophat", fromM: fromUm * 1e-6, toM: toUm * 1e-6 }) });
+    passbandTimes.push(performance.now() - t2);
+    const max = phaseCurveSummary(sim.history, curve).maxFluxRatio;
+    // The planet/star contrast grows toward longer wavelengths (the planet's Planck curve peaks far redder than the star's).
+    if (toUm > 5 && !(max > first.maxFluxRatio)) wrong.push(`map: the planet/star contrast in ${fromUm}–${toUm} µm (${max}) should exceed the 4–5 µm one (${first.maxFluxRatio})`);
+    if (toUm < 4 && !(max < first.maxFluxRatio)) wrong.push(`map: the planet/star contrast in ${fromUm}–${toUm} µm (${max}) should be below the 4–5 µm one (${first.maxFluxRatio})`);
+  }
+  const passbandMs = [...passbandTimes].sort((x, y) => x - y)[Math.floor(passbandTimes.length / 2)]!;
 
   return {
     wrong,
     figures: [
       { name: "map 36x18 periodic state + 1000-point phase curve", value: solveSeconds, unit: "s", target: "< 1 s", met: solveSeconds < 1, details: `${sim.work.evaluations} evaluations` },
       { name: "map phase curve for a new inclination (no new solve)", value: inclinationMs, unit: "ms", target: "< 20 ms", met: inclinationMs < 20 },
-      { name: "map phase curve for a new passband (no new solve)", value: passbandMs, unit: "ms", target: "< 20 ms", met: passbandMs < 20 },
+      {
+        name: "map phase curve for a new passband (no new solve)",
+        value: passbandMs,
+        unit: "ms",
+        target: "< 20 ms",
+        met: passbandMs < 20,
+        details: `median of ${passbandTimes.length} new passbands, 2-20 um; the first ${passbandTimes[0]!.toFixed(1)} ms`,
+      },
     ],
   };
 }

@@ -71,6 +71,24 @@ describe("passbands: Planck's law", () => {
       expect(band.brightnessTemperature(direct)).toBeCloseTo(t, 4);
     }
   });
+
+  it("fills its table lazily with the same values in any order of use, and a warm-started inversion agrees with a cold one", () => {
+    // The table is defined by its grid (each entry the direct quadrature at its own temperature): the
+    // order in which temperatures are first asked for cannot change a value.
+    const temperatures = [1.5, 40, 299.9, 300.1, 1234.5, 6000, 9.99e4];
+    const upward = new BandRadiance({ kind: "tophat", fromM: 3e-6, toM: 12e-6 });
+    const downward = new BandRadiance({ kind: "tophat", fromM: 3e-6, toM: 12e-6 });
+    const forward = temperatures.map((t) => upward.at(t));
+    const backward = [...temperatures].reverse().map((t) => downward.at(t)).reverse();
+    expect(backward).toEqual(forward);
+    for (const t of [50, 300, 2000]) {
+      const radiance = bandRadianceDirect(upward.band, t);
+      const cold = upward.brightnessTemperature(radiance);
+      for (const guess of [2, t * 0.7, t * 1.3, 9e4]) expect(Math.abs(upward.brightnessTemperature(radiance, guess) / cold - 1)).toBeLessThan(1e-10);
+      // d ln B_λ / d ln T = x eˣ/(eˣ − 1) ≥ 1 (x = hc/λkT; Planck's law), so the table's 1e-6 in I is at most 1e-6 in T.
+      expect(Math.abs(cold / t - 1)).toBeLessThan(1e-6);
+    }
+  });
 });
 
 describe("the observer's geometry (Winn 2010, 'Transits and Occultations', eqs. 2–4 and 33)", () => {

@@ -81,15 +81,8 @@ const UNIFORM_TABLE_POINTS = 4096;
 export function cellRadiance(history: MapHistory, band: BandRadiance): Float64Array {
   const t = history.temperatureK;
   const out = new Float64Array(t.length);
-  let lo = Infinity;
-  let hi = -Infinity;
-  for (let i = 0; i < t.length; i++) {
-    const v = t[i]!;
-    if (v > 0) {
-      if (v < lo) lo = v;
-      if (v > hi) hi = v;
-    }
-  }
+  positiveRange(t);
+  const { lo, hi } = range;
   if (!(hi > lo)) {
     for (let i = 0; i < t.length; i++) out[i] = band.at(t[i]!);
     return out;
@@ -99,30 +92,93 @@ export function cellRadiance(history: MapHistory, band: BandRadiance): Float64Ar
   const start = lo - step; // one guard point each side for the cubic's outer neighbours
   const table = new Float64Array(n);
   for (let j = 0; j < n; j++) table[j] = band.at(Math.max(start + j * step, 0));
-  const inverse = 1 / step;
+  interpolateUniform(t, table, start, 1 / step, out);
+  return out;
+}
+
+/** The smallest and largest positive value of t, into `range` (its own function, like the loop below). */
+function positiveRange(t: Float64Array): void {
+  let lo = Infinity;
+  let hi = -Infinity;
   for (let i = 0; i < t.length; i++) {
     const v = t[i]!;
-    if (!(v > 0)) {
-      out[i] = 0;
-      continue;
+    if (v > 0) {
+      if (v < lo) lo = v;
+      if (v > hi) hi = v;
     }
+  }
+  range.lo = lo;
+  range.hi = hi;
+}
+const range = { lo: 0, hi: 0 };
+
+/**
+ * out[i] = the Catmull–Rom cubic through `table` (uniform in T from `start`, spacing 1/inverse) at
+ * t[i], 0 where t[i] ≤ 0. Its own function so that the JIT optimises this loop on its first call.
+ */
+function interpolateUniform(t: Float64Array, table: Float64Array, start: number, inverse: number, out: Float64Array): void {
+  const last = table.length - 3;
+  for (let i = 0; i < t.length; i++) {
+    const v = t[i]!;
     const u = (v - start) * inverse;
-    const j = Math.min(n - 3, Math.max(1, Math.floor(u)));
+    let j = u | 0; // u ≥ 1 for every v ≥ lo; smaller or non-finite only where v ≤ 0
+    if (!(j >= 1)) j = 1;
+    else if (j > last) j = last;
     const s = u - j;
     const p0 = table[j - 1]!;
     const p1 = table[j]!;
     const p2 = table[j + 1]!;
     const p3 = table[j + 2]!;
-    out[i] = p1 + 0.5 * s * (p2 - p0 + s * (2 * p0 - 5 * p1 + 4 * p2 - p3 + s * (3 * (p1 - p2) + p3 - p0)));
+    const y = p1 + 0.5 * s * (p2 - p0 + s * (2 * p0 - 5 * p1 + 4 * p2 - p3 + s * (3 * (p1 - p2) + p3 - p0)));
+    out[i] = v > 0 ? y : 0;
   }
-  return out;
 }
+
+/** The last band radiances computed for each map history (the viewer's sliders ask for the same band again and again). */
+const radianceCache = new WeakMap<MapHistory, { band: BandRadiance; radiance: Float64Array }>();
+
+/** `cellRadiance`, remembered per history for its last passband. */
+function cachedRadiance(history: MapHistory, band: BandRadiance): Float64Array {
+  const hit = radianceCache.get(history);
+  if (hit && hit.band === band) return hit.radiance;
+  const radiance = cellRadiance(history, band);
+  radianceCache.set(history, { band, radiance });
+  return radiance;
+}
+
+/** Σ radiance[base + k] μ_k ΔA_k over the cells facing the observer (μ_k > 0); leaves Σ μ_k ΔA_k in `visible.projected`. */
+function visibleSum(
+  radiance: Float64Array,
+  base: number,
+  normalX: Float64Array,
+  normalY: Float64Array,
+  normalZ: Float64Array,
+  areaFraction: Float64Array,
+  ox: number,
+  oy: number,
+  oz: number,
+): number {
+  let sum = 0;
+  let projected = 0;
+  for (let k = 0; k < normalX.length; k++) {
+    const mu = normalX[k]! * ox + normalY[k]! * oy + normalZ[k]! * oz;
+    if (mu > 0) {
+      const w = mu * areaFraction[k]!;
+      sum += radiance[base + k]! * w;
+      projected += w;
+    }
+  }
+  visible.projected = projected;
+  return sum;
+}
+const visible = { projected: 0 };
 
 /**
  * The phase curve for one observer and passband. `radiance` may be passed in (from
- * `cellRadiance`) to re-evaluate a new inclination without recomputing band radiances.
+ * `cellRadiance`); by default the last one computed for this history and this `BandRadiance` object
+ * is reused, so a new inclination (same band object) recomputes no band radiance.
  */
-export function phaseCurve(history: MapHistory, telescope: Telescope, radiance = cellRadiance(history, telescope.band)): PhaseCurveSeries {
+export function phaseCurve(history: MapHistory, telescope: Telescope, radiance = cachedRadiance(history, telescope.band)): PhaseCurveSeries {
   const { grid, orbit, frame } = history;
   const count = history.timeSeconds.length;
   const cells = grid.longitudes * grid.latitudes;
@@ -144,22 +200,14 @@ export function phaseCurve(history: MapHistory, telescope: Telescope, radiance =
     brightnessTemperatureK: new Float64Array(count),
   };
   const { normalX, normalY, normalZ, areaFraction } = grid;
+  let guessK: number | undefined;
   for (let s = 0; s < count; s++) {
     const sinceperiastron = history.meanAnomalyRad[s]! / n;
     const lon = ra - alphaAtPeriastron - frame.rateRadPerSecond * sinceperiastron;
     const ox = cosDec * Math.cos(lon);
     const oy = cosDec * Math.sin(lon);
-    let sum = 0;
-    let projected = 0;
-    const base = s * cells;
-    for (let k = 0; k < cells; k++) {
-      const mu = normalX[k]! * ox + normalY[k]! * oy + normalZ[k]! * sinDec;
-      if (mu > 0) {
-        const w = mu * areaFraction[k]!;
-        sum += radiance[base + k]! * w;
-        projected += w;
-      }
-    }
+    const sum = visibleSum(radiance, s * cells, normalX, normalY, normalZ, areaFraction, ox, oy, sinDec);
+    const projected = visible.projected;
     const own = sum * fluxScale;
     const { separationM, towardObserverM } = skyOffset(observer, history.trueAnomalyRad[s]!, history.distanceM[s]!);
     const hidden = towardObserverM < 0 ? coveredFraction(rs, rp, separationM) : 0;
@@ -169,7 +217,9 @@ export function phaseCurve(history: MapHistory, telescope: Telescope, radiance =
     out.phaseAngleRad[s] = phaseAngle(observer, history.trueAnomalyRad[s]!);
     out.subObserverLongitudeRad[s] = lon - TWO_PI * Math.round(lon / TWO_PI);
     // disc-averaged intensity: Σ I μ ΔA over the projected disc area Σ μ ΔA (= 1/4 of the sphere's area)
-    out.brightnessTemperatureK[s] = projected > 0 ? telescope.band.brightnessTemperature(sum / projected) : 0;
+    const brightness = projected > 0 ? telescope.band.brightnessTemperature(sum / projected, guessK) : 0;
+    out.brightnessTemperatureK[s] = brightness;
+    if (brightness > 0) guessK = brightness;
   }
   return out;
 }

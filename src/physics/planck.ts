@@ -107,15 +107,25 @@ const TABLE_MIN_K = 1;
 const TABLE_MAX_K = 1e5;
 const TABLE_POINTS = 1537;
 
+/** Table entries computed together when a temperature first needs them (the table is filled lazily). */
+const TABLE_BLOCK = 16;
+
 /**
  * A passband's radiance as a fast function of temperature: cubic Hermite interpolation of ln I
  * against ln T on a fixed grid (relative error below 1e-7 across 10–10⁴ K for bands in the
  * visible and infrared, measured against the direct quadrature in the tests).
+ *
+ * The table is filled block by block when a temperature first needs it (each entry is the direct
+ * quadrature at its own grid temperature, so the values do not depend on the order of the calls):
+ * a new passband costs only the few blocks that its map's temperatures and the star's touch,
+ * not the whole 1–10⁵ K grid.
  */
 export class BandRadiance {
   readonly band: Passband;
   private readonly logI: Float64Array;
   private readonly slope: Float64Array;
+  /** filled[b] = 1 once block b's entries and slopes are computed. */
+  private readonly filled: Uint8Array;
   private readonly step: number;
   private readonly lnMin: number;
 
@@ -126,17 +136,53 @@ export class BandRadiance {
     this.step = (Math.log(TABLE_MAX_K) - this.lnMin) / (TABLE_POINTS - 1);
     this.logI = new Float64Array(TABLE_POINTS);
     this.slope = new Float64Array(TABLE_POINTS);
-    if (band.kind === "bolometric") return;
-    for (let i = 0; i < TABLE_POINTS; i++) {
-      const value = bandRadianceDirect(band, Math.exp(this.lnMin + i * this.step));
-      this.logI[i] = value > 0 ? Math.log(value) : -745;
-    }
-    for (let i = 0; i < TABLE_POINTS; i++) {
-      const lo = Math.max(0, i - 1);
-      const hi = Math.min(TABLE_POINTS - 1, i + 1);
-      this.slope[i] = (this.logI[hi]! - this.logI[lo]!) / ((hi - lo) * this.step);
-    }
+    this.filled = new Uint8Array(Math.ceil(TABLE_POINTS / TABLE_BLOCK));
   }
+
+  /** ln I at grid point i by direct quadrature (−745 where the radiance underflows). */
+  private entry(i: number): number {
+    const value = bandRadianceDirect(this.band, Math.exp(this.lnMin + i * this.step));
+    return value > 0 ? Math.log(value) : -745;
+  }
+
+  /** Computes block b's entries and their centred slopes (one-sided at the table's ends). */
+  private fill(b: number): void {
+    const from = b * TABLE_BLOCK;
+    const to = Math.min(TABLE_POINTS, from + TABLE_BLOCK);
+    for (let i = from; i < to; i++) this.logI[i] = this.entry(i);
+    const before = from > 0 ? this.entry(from - 1) : this.logI[from]!;
+    const after = to < TABLE_POINTS ? this.entry(to) : this.logI[to - 1]!;
+    for (let i = from; i < to; i++) {
+      const lo = i > 0 ? (i - 1 >= from ? this.logI[i - 1]! : before) : this.logI[i]!;
+      const hi = i + 1 < TABLE_POINTS ? (i + 1 < to ? this.logI[i + 1]! : after) : this.logI[i]!;
+      const span = (i > 0 ? 1 : 0) + (i + 1 < TABLE_POINTS ? 1 : 0);
+      this.slope[i] = (hi - lo) / (span * this.step);
+    }
+    this.filled[b] = 1;
+  }
+
+  /**
+   * ln I at the table coordinate u = (ln T − ln T_min)/step, 0 ≤ u < TABLE_POINTS − 1, by the cubic
+   * Hermite interpolant; leaves d ln I / d ln T there in `this.lnSlope`.
+   */
+  private lnAt(u: number): number {
+    const i = Math.floor(u);
+    const s = u - i;
+    const block = (i / TABLE_BLOCK) | 0;
+    if (this.filled[block] === 0) this.fill(block);
+    if ((i + 1) % TABLE_BLOCK === 0 && this.filled[block + 1] === 0) this.fill(block + 1);
+    const y0 = this.logI[i]!;
+    const y1 = this.logI[i + 1]!;
+    const m0 = this.slope[i]! * this.step;
+    const m1 = this.slope[i + 1]! * this.step;
+    const s2 = s * s;
+    const s3 = s2 * s;
+    this.lnSlope = ((6 * s2 - 6 * s) * (y0 - y1) + (3 * s2 - 4 * s + 1) * m0 + (3 * s2 - 2 * s) * m1) / this.step;
+    return (2 * s3 - 3 * s2 + 1) * y0 + (s3 - 2 * s2 + s) * m0 + (-2 * s3 + 3 * s2) * y1 + (s3 - s2) * m1;
+  }
+
+  /** d ln I / d ln T at the last `lnAt`. */
+  private lnSlope = 0;
 
   /** Band radiance at T, W m⁻² sr⁻¹ (0 at T ≤ 0). */
   at(temperatureK: number): number {
@@ -148,30 +194,40 @@ export class BandRadiance {
     if (!(temperatureK >= TABLE_MIN_K)) return 0; // below 1 K: nothing a passband away from the far infrared sees
     const u = (Math.log(temperatureK) - this.lnMin) / this.step;
     if (u >= TABLE_POINTS - 1) return bandRadianceDirect(this.band, temperatureK);
-    const i = Math.floor(u);
-    const s = u - i;
-    const y0 = this.logI[i]!;
-    const y1 = this.logI[i + 1]!;
-    const m0 = this.slope[i]! * this.step;
-    const m1 = this.slope[i + 1]! * this.step;
-    const s2 = s * s;
-    const s3 = s2 * s;
-    const y = (2 * s3 - 3 * s2 + 1) * y0 + (s3 - 2 * s2 + s) * m0 + (-2 * s3 + 3 * s2) * y1 + (s3 - s2) * m1;
-    return Math.exp(y);
+    return Math.exp(this.lnAt(u));
   }
 
-  /** The temperature whose band radiance is `radiance` (W m⁻² sr⁻¹): a brightness temperature, K. */
-  brightnessTemperature(radiance: number): number {
+  /**
+   * The temperature whose band radiance is `radiance` (W m⁻² sr⁻¹): a brightness temperature, K,
+   * to 1e-11 relative. Newton's method on ln I(ln T) of the table, kept inside a shrinking bracket
+   * (a bisection step whenever Newton would leave it); `guessK` (a neighbouring sample's answer)
+   * saves most of the iterations.
+   */
+  brightnessTemperature(radiance: number, guessK?: number): number {
     if (!(radiance > 0)) return 0;
     if (this.band.kind === "bolometric") return Math.sqrt(Math.sqrt((Math.PI * radiance) / STEFAN_BOLTZMANN));
-    let lo = TABLE_MIN_K;
-    let hi = TABLE_MAX_K;
-    if (radiance <= this.at(lo)) return lo;
-    for (let k = 0; k < 200 && hi - lo > 1e-9 * hi; k++) {
-      const mid = Math.sqrt(lo * hi);
-      if (this.at(mid) < radiance) lo = mid;
-      else hi = mid;
+    if (radiance <= this.at(TABLE_MIN_K)) return TABLE_MIN_K;
+    const last = TABLE_POINTS - 1;
+    // Above the table the radiance is a direct quadrature; the answer is reported as the table's top.
+    if (radiance >= Math.exp(this.lnAt(last - 1e-9))) return TABLE_MAX_K;
+    const target = Math.log(radiance);
+    let lo = 0;
+    let hi = last - 1e-9;
+    let u = guessK !== undefined && guessK > TABLE_MIN_K && guessK < TABLE_MAX_K ? (Math.log(guessK) - this.lnMin) / this.step : 0.5 * (lo + hi);
+    const tolerance = 1e-11 / this.step; // 1e-11 in ln T
+    for (let k = 0; k < 200; k++) {
+      const g = this.lnAt(u) - target;
+      if (g < 0) lo = u;
+      else hi = u;
+      const d = this.lnSlope * this.step; // d ln I / du
+      let next = d > 0 ? u - g / d : 0.5 * (lo + hi);
+      if (!(next > lo && next < hi)) next = 0.5 * (lo + hi);
+      if (Math.abs(next - u) <= tolerance || hi - lo <= tolerance) {
+        u = next;
+        break;
+      }
+      u = next;
     }
-    return 0.5 * (lo + hi);
+    return Math.exp(this.lnMin + u * this.step);
   }
 }
