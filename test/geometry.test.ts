@@ -4,7 +4,7 @@ import type { ThermalCase } from "../src/model/thermalCase.js";
 import { DayNightBalance, exchangeEquilibrium } from "../src/physics/dayNight.js";
 import { equilibriumTemperature, stellarFlux } from "../src/physics/flux.js";
 import { bandForcing, pointForcing } from "../src/physics/forcing.js";
-import { cosZenith, dailyMeanInsolation, hourAngle, solarDaySeconds, stellarRightAscension, substellarLongitude } from "../src/physics/geometry.js";
+import { cosZenith, cosZenithFromAngles, dailyMeanInsolation, hourAngle, solarDaySeconds, stellarRightAscension, substellarLongitude } from "../src/physics/geometry.js";
 import { trueAnomalyFromEccentric, eccentricAnomaly } from "../src/physics/kepler.js";
 import { simulate } from "../src/run/simulate.js";
 import { buildThermalModel } from "../src/model/build.js";
@@ -305,6 +305,19 @@ describe("hour angle and zenith (the geometry the point forcing uses)", () => {
       expect(cosZenith(lat * deg, decl * deg, 0)).toBeCloseTo(Math.cos((lat - decl) * deg), 14);
       const h0 = Math.acos(-Math.tan(lat * deg) * Math.tan(decl * deg));
       expect(Math.abs(cosZenith(lat * deg, decl * deg, h0))).toBeLessThan(1e-14);
+    }
+  });
+
+  it("gives the same cos z from the sines and cosines of the star's longitude and the point's angle as from δ, α and H", () => {
+    // The star at ecliptic longitude l is at (cos l, cos θ sin l, sin θ sin l) in the equatorial frame
+    // (spherical astronomy, common practice); H = A − α with tan α = cos θ tan l.
+    for (const [lat, theta, l, a] of [[40, 23.44, 75, 10], [-35, 97, 200, -130], [70, 0, 300, 400], [0, 180, 45, 45], [89, 60, 181, 3]] as const) {
+      const sinL = Math.sin(l * deg);
+      const cosL = Math.cos(l * deg);
+      const decl = Math.asin(Math.sin(theta * deg) * sinL);
+      const alpha = stellarRightAscension(theta * deg, l * deg, 0);
+      const fromAngles = cosZenithFromAngles(Math.sin(lat * deg), Math.cos(lat * deg), Math.sin(theta * deg), Math.cos(theta * deg), sinL, cosL, Math.sin(a * deg), Math.cos(a * deg));
+      expect(fromAngles).toBeCloseTo(cosZenith(lat * deg, decl, a * deg - alpha), 13);
     }
   });
 

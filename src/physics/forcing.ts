@@ -6,11 +6,10 @@
 import { absorbedFlux, GEOMETRY_FACTOR, inverseSquareAt, stellarFlux, type LumpedRegime } from "./flux.js";
 import { albedoAtIncidence, checkIncidenceAlbedo, type IncidenceAlbedo } from "./albedo.js";
 import {
-  cosZenithFrom,
+  cosZenithFromAngles,
   dailyMeanInsolation,
   hourAngleFrom,
   rightAscensionAt,
-  sinDeclinationAt,
   solarDaySeconds,
   stellarDeclination,
   type SpinGeometry,
@@ -101,35 +100,44 @@ export function pointForcing(
   const n = meanMotion(orbit);
   const fluxAtA = stellarFlux(luminosityW, orbit.semiMajorAxisM);
   const absorbedAtA = absorbedFlux(albedo, fluxAtA);
-  const trueAnomalyFactor = Math.sqrt((1 + e) / (1 - e));
   const sinTheta = Math.sin(spin.obliquityRad);
   const cosTheta = Math.cos(spin.obliquityRad);
   const nuEq = spin.equinoxTrueAnomalyRad;
+  const sinNuEq = Math.sin(nuEq);
+  const cosNuEq = Math.cos(nuEq);
   const sinLat = Math.sin(latitudeRad);
   const cosLat = Math.cos(latitudeRad);
-  const alphaAtPeriastron = rightAscensionAt(cosTheta, Math.sin(-nuEq), Math.cos(-nuEq));
+  const rootOneMinusE2 = Math.sqrt(1 - e * e);
+  // The point's angle A = λ + α★(0) + φ(E), φ = Ω (t − t_p) = (Ω/n)(E − e sin E): see hourAngleFrom.
+  const angleAtPeriastron = hourAngleFrom(longitudeRad, rightAscensionAt(cosTheta, -sinNuEq, cosNuEq), 0, 0);
   const spinPerAnomaly = spin.rateRadPerSecond / n;
+  // One sine–cosine pair of E and one of A per evaluation: cos ν = (cos E − e)/(1 − e cos E) and
+  // sin ν = √(1 − e²) sin E/(1 − e cos E) (Kepler's orbit, common practice), l = ν − ν_eq by the sum rules.
+  // (a/r)² = 1/(1 − e cos E)² of the last cosZenithAt (the same cos E; inverseSquareAt's formula).
+  let inverseSquare = 1;
   const cosZenithAt = (E: number): number => {
-    // ν enters only through sines and cosines, so its value modulo 2π is enough.
-    const nu = 2 * Math.atan(trueAnomalyFactor * Math.tan(E / 2));
-    const l = nu - nuEq;
-    const sinL = Math.sin(l);
-    const sinDecl = sinDeclinationAt(sinTheta, sinL);
-    const cosDecl = Math.sqrt(1 - sinDecl * sinDecl);
-    const h = hourAngleFrom(longitudeRad, alphaAtPeriastron, spinPerAnomaly * (E - e * Math.sin(E)), rightAscensionAt(cosTheta, sinL, Math.cos(l)));
-    return cosZenithFrom(sinLat, cosLat, sinDecl, cosDecl, h);
+    const sinE = Math.sin(E);
+    const cosE = Math.cos(E);
+    const w = 1 - e * cosE;
+    inverseSquare = 1 / (w * w);
+    const cosNu = (cosE - e) / w;
+    const sinNu = (rootOneMinusE2 * sinE) / w;
+    const sinL = sinNu * cosNuEq - cosNu * sinNuEq;
+    const cosL = cosNu * cosNuEq + sinNu * sinNuEq;
+    const a = angleAtPeriastron + spinPerAnomaly * (E - e * sinE);
+    return cosZenithFromAngles(sinLat, cosLat, sinTheta, cosTheta, sinL, cosL, Math.sin(a), Math.cos(a));
   };
   let absorbedAt: (E: number) => number;
   if (incidenceAlbedo === undefined) {
     absorbedAt = (E) => {
       const mu = cosZenithAt(E);
-      return mu > 0 ? absorbedAtA * inverseSquareAt(e, E) * mu : 0;
+      return mu > 0 ? absorbedAtA * inverseSquare * mu : 0;
     };
   } else {
     checkIncidenceAlbedo(albedo, incidenceAlbedo);
     absorbedAt = (E) => {
       const mu = cosZenithAt(E);
-      return mu > 0 ? absorbedFlux(albedoAtIncidence(albedo, incidenceAlbedo, Math.acos(Math.min(1, mu))), fluxAtA * inverseSquareAt(e, E)) * mu : 0;
+      return mu > 0 ? absorbedFlux(albedoAtIncidence(albedo, incidenceAlbedo, Math.acos(Math.min(1, mu))), fluxAtA * inverseSquare) * mu : 0;
     };
   }
   const solarDay = solarDaySeconds(spin.rateRadPerSecond, n, spin.obliquityRad);

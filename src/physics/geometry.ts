@@ -72,6 +72,29 @@ export function cosZenithFrom(sinLatitude: number, cosLatitude: number, sinDecli
   return sinLatitude * sinDeclination + cosLatitude * cosDeclination * Math.cos(hourAngleRad);
 }
 
+/**
+ * cos z with no angle taken: the star at longitude l from the equinox sits at (cos l, cos θ sin l,
+ * sin θ sin l) in the body's equatorial frame, i.e. cos δ cos α = cos l, cos δ sin α = cos θ sin l,
+ * sin δ = sin θ sin l. With the point's angle A = H + α = λ + α★(0) + φ (`hourAngleFrom` before the
+ * star's right ascension is taken off), cos δ cos H = cos A cos l + sin A cos θ sin l, so
+ * cos z = sin φ sin θ sin l + cos φ (cos A cos l + sin A cos θ sin l): the same cos z as
+ * `cosZenithFrom`, from the sines and cosines of l and A alone (for a forcing evaluated millions of
+ * times per run: no arctangent, no square root).
+ */
+export function cosZenithFromAngles(
+  sinLatitude: number,
+  cosLatitude: number,
+  sinObliquity: number,
+  cosObliquity: number,
+  sinStarLongitude: number,
+  cosStarLongitude: number,
+  sinPointAngle: number,
+  cosPointAngle: number,
+): number {
+  const y = cosObliquity * sinStarLongitude;
+  return sinLatitude * sinObliquity * sinStarLongitude + cosLatitude * (cosPointAngle * cosStarLongitude + sinPointAngle * y);
+}
+
 /** cos z = sin φ sin δ + cos φ cos δ cos H (common practice); negative below the horizon. */
 export function cosZenith(latitudeRad: number, declinationRad: number, hourAngleRad: number): number {
   return cosZenithFrom(Math.sin(latitudeRad), Math.cos(latitudeRad), Math.sin(declinationRad), Math.cos(declinationRad), hourAngleRad);
