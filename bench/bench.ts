@@ -288,8 +288,20 @@ for (const [days, targetS] of [
     check("scipy peer mean temperature", answer.meanK, ref.meanK[0]!, AGREEMENT);
     check("scipy peer minimum temperature", answer.minK, ref.minK[0]!, AGREEMENT);
     check("scipy peer maximum temperature", answer.maxK, ref.maxK[0]!, AGREEMENT);
-    const ratio = (answer.seconds * 1000) / slabMs;
-    figure("scipy peer", fmt(ratio), "x slower than calorbit", ">= 100x", ratio >= 100, `solve_ivp ${(answer.seconds * 1000).toFixed(1)} ms, calorbit ${slabMs.toFixed(3)} ms, same slab case`);
+    // As users call each: calorbit's default `simulate` (1000-sample series and the summary), against
+    // the peer's solve with its dense output (the peer needs it for its statistics). The summary-only
+    // ratio is shown beside it. The peer is the less accurate of the two (measured: its RK45 at rtol
+    // 1e-10 leaves its minimum 5e-9 from the reference, calorbit's default run is within 5e-11), so
+    // the ratio, if anything, favours the peer.
+    const ratio = (answer.seconds * 1000) / seriesMs;
+    figure(
+      "scipy peer",
+      fmt(ratio),
+      "x slower than calorbit's default call",
+      ">= 100x",
+      ratio >= 100,
+      `solve_ivp ${(answer.seconds * 1000).toFixed(1)} ms, calorbit ${seriesMs.toFixed(3)} ms with the 1000-sample series (${fmt((answer.seconds * 1000) / slabMs)}x its summary-only ${slabMs.toFixed(3)} ms), same slab case`,
+    );
   }
 }
 
