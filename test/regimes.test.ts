@@ -14,6 +14,7 @@ const HALVES: RegimeEntry = {
   words: "test only: a lit and a dark hemisphere, no exchange",
   menuLabel: "halves (test)",
   colour: "#56B4E9",
+  pipeline: "surface",
   heatStores: ["slab"],
   fields: [],
   surface: (t) => ({
@@ -58,5 +59,19 @@ describe("a regime added in the table only", () => {
     // The whole surface's budget is area-weighted: absorbed (1/2)(S/2 + q) + (1/2) q = S/4 + q.
     expect(Math.abs(s.energyBalanceResidual!)).toBeLessThan(1e-8);
     expect(Math.abs(s.meanAbsorbedWPerM2! / (STEFAN_BOLTZMANN * 278.33 ** 4 + q) - 1)).toBeLessThan(1e-4);
+  });
+});
+
+describe("the regimes with solves of their own", () => {
+  it("are refused by the single-surface solve with a message that names the command to use", async () => {
+    const { REGIME_TABLE, SURFACE_REGIMES } = await import("../src/model/regimes.js");
+    for (const regime of ["map", "zonal"] as const) {
+      expect(REGIME_TABLE[regime].pipeline).toBe(regime);
+      expect(SURFACE_REGIMES).not.toContain(regime);
+      expect(() => simulate({ ...nominalCase({ heatCapacity: 1e7 }), regime }, { samples: 0 })).toThrowError(
+        expect.objectContaining({ code: "INVALID_ARGUMENT", message: `the ${regime} regime has its own solve` }),
+      );
+    }
+    expect(SURFACE_REGIMES).toEqual(["global", "dayside", "substellar", "daynight", "band", "point", "halves"]);
   });
 });

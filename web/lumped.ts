@@ -7,7 +7,7 @@
 import uPlot from "uplot";
 import { DAY_S } from "../src/constants.js";
 import { CalorbitError } from "../src/errors.js";
-import { REGIMES, REGIME_TABLE, type Regime } from "../src/model/regimes.js";
+import { REGIME_TABLE, SURFACE_REGIMES, type Regime } from "../src/model/regimes.js";
 import type { ThermalCase } from "../src/model/thermalCase.js";
 import { thermalCaseFromRecord, type ResultDocument } from "../src/report/document.js";
 import { duration, sig } from "../src/report/format.js";
@@ -25,7 +25,7 @@ import { markersPlugin } from "./markers.js";
 
 const SAMPLES = 2000;
 /** The regimes the live view computes (those that sit on a slab), in the table's menu order. */
-const LIVE_REGIMES: readonly Regime[] = REGIMES.filter((r) => REGIME_TABLE[r].heatStores.includes("slab"));
+const LIVE_REGIMES: readonly Regime[] = SURFACE_REGIMES.filter((r) => REGIME_TABLE[r].heatStores.includes("slab"));
 
 /** One curve of the temperature chart. */
 interface Curve {

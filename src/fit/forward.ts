@@ -10,6 +10,7 @@ import { simulate } from "../run/simulate.js";
 import { observeMap } from "../run/observeMap.js";
 import { setPath } from "../sweep/spec.js";
 import type { ThermalCase } from "../model/thermalCase.js";
+import { REGIME_TABLE } from "../model/regimes.js";
 import type { ObservedQuantity, Observations } from "./observations.js";
 import { offsetSeconds, scenarioValue, TIME_OFFSET_KEY, type FreeParameter } from "./parameters.js";
 
@@ -97,7 +98,7 @@ export function modelCurve(settings: ForwardSettings, values: ArrayLike<number>)
   const thermal = caseFor(settings, values);
   const out = settings.output;
   checkModelOutput(out, thermal);
-  if (thermal.regime === "map") return mapCurve(settings, thermal);
+  if (REGIME_TABLE[thermal.regime].pipeline === "map") return mapCurve(settings, thermal);
   if (thermal.column) {
     const col = simulate(thermal, { relativeTolerance: Math.max(settings.relativeTolerance, 1e-12), samples: settings.samples });
     if (out.kind === "state") throw outputMismatch(out, "surface or depth=<length> for a conduction column");
@@ -122,12 +123,12 @@ export function modelCurve(settings: ForwardSettings, values: ArrayLike<number>)
  * without a repeating cycle. (A map's missing radii are the scenario's to say: `telescopeOf`.)
  */
 export function checkModelOutput(out: ModelOutput, thermal: ThermalCase): void {
-  if (thermal.climate) {
+  if (REGIME_TABLE[thermal.regime].pipeline === "zonal") {
     throw new CalorbitError("USAGE", "the zonal climate cannot be fitted yet", [
       { path: "regime", given: "zonal", allowed: "global, dayside, substellar, daynight, band, point or map (a fit of the zonal climate is not built yet)" },
     ]);
   }
-  if (thermal.regime !== "map") {
+  if (REGIME_TABLE[thermal.regime].pipeline !== "map") {
     if (out.kind === "fluxRatio") throw outputMismatch(out, `surface, day, night or depth=<length>: fluxRatio needs regime: map with an observer (this scenario's regime is ${thermal.regime})`);
     return;
   }

@@ -16,8 +16,16 @@ import { singleCell, type Surface } from "./surface.js";
 import type { ThermalCase } from "./thermalCase.js";
 
 /** Every regime calorbit integrates, in menu order. */
-export const REGIMES = ["global", "dayside", "substellar", "daynight", "band", "point", "map"] as const;
+export const REGIMES = ["global", "dayside", "substellar", "daynight", "band", "point", "map", "zonal"] as const;
 export type Regime = (typeof REGIMES)[number];
+
+/**
+ * Which solve runs a regime: "surface", the engine's `simulate` (its cells × heat store × exchange,
+ * from `surface` and `exchange` below); "map", the longitude × latitude grid and its observer
+ * (`src/run/simulateMap.ts`, `observeMap.ts`); "zonal", the climate of latitude bands
+ * (`src/run/zonal.ts`). Commands switch on it, so a new pipeline is flagged wherever it must be run.
+ */
+export type Pipeline = "surface" | "map" | "zonal";
 
 /** Scenario fields a regime reads beyond star, orbit and body (the reports describe exactly these). */
 export type RegimeField = "spin.axis" | "spin.rate" | "location.latitude" | "location.longitude" | "exchange";
@@ -29,6 +37,8 @@ export interface RegimeEntry {
   menuLabel: string;
   /** Chart colour when several regimes are drawn together (Okabe–Ito palette, `src/view/palette.ts`). */
   colour: string;
+  /** The solve that runs it (see `Pipeline`). */
+  pipeline: Pipeline;
   /** Heat stores the regime can sit on. */
   heatStores: readonly HeatStoreKind[];
   /** Scenario fields it reads. */
@@ -70,6 +80,7 @@ function wholeBody(name: "global" | "dayside" | "substellar", words: string, men
     words,
     menuLabel,
     colour,
+    pipeline: "surface",
     heatStores: ["slab", "column"],
     fields: [],
     surface: (t) => singleCell(lumpedForcing(name, t.surface.albedo, t.star.luminosityW, t.orbit)),
@@ -85,6 +96,7 @@ export const REGIME_TABLE: Readonly<Record<Regime, RegimeEntry>> = {
     words: "two hemispheres exchanging heat",
     menuLabel: "day + night",
     colour: "#009E73",
+    pipeline: "surface",
     heatStores: ["slab"],
     fields: ["exchange"],
     surface(t) {
@@ -111,12 +123,17 @@ export const REGIME_TABLE: Readonly<Record<Regime, RegimeEntry>> = {
     words: "daily-mean insolation at one latitude of a fast rotator",
     menuLabel: "latitude band",
     colour: "#CC79A7",
+    pipeline: "surface",
     heatStores: ["slab", "column"],
     fields: ["spin.axis", "location.latitude"],
     surface(t) {
       const spin = DEFAULT_SPIN(t);
-      const forcing = bandForcing(t.surface.albedo, t.star.luminosityW, t.orbit, locationOf(t).latitudeRad, spin.obliquityRad, spin.equinoxTrueAnomalyRad);
-      return singleCell(forcing, { cycleOrbits: 1, commensurate: true, forcingHasCorners: true });
+      const latitudeRad = locationOf(t).latitudeRad;
+      const forcing = bandForcing(t.surface.albedo, t.star.luminosityW, t.orbit, latitudeRad, spin.obliquityRad, spin.equinoxTrueAnomalyRad);
+      // The daily mean has corners only where polar day or night begins: |latitude| + tilt ≥ 90°.
+      const tilt = Math.min(spin.obliquityRad, Math.PI - spin.obliquityRad);
+      const smooth = Math.abs(latitudeRad) + tilt < 0.5 * Math.PI - 1e-6;
+      return singleCell(forcing, { cycleOrbits: 1, commensurate: true, forcingHasCorners: true, ...(smooth ? { cornerSearch: "smooth" as const } : {}) });
     },
     exchange: () => NO_EXCHANGE,
   },
@@ -124,6 +141,7 @@ export const REGIME_TABLE: Readonly<Record<Regime, RegimeEntry>> = {
     words: "one place on a spinning surface, hour by hour",
     menuLabel: "surface point",
     colour: "#000000",
+    pipeline: "surface",
     heatStores: ["slab", "column"],
     fields: ["spin.rate", "spin.axis", "location.latitude", "location.longitude"],
     surface(t) {
@@ -138,6 +156,7 @@ export const REGIME_TABLE: Readonly<Record<Regime, RegimeEntry>> = {
         commensurate: cycle.commensurate,
         solarDaySeconds: solarDaySeconds(spin.rateRadPerSecond, n, spin.obliquityRad),
         forcingHasCorners: true,
+        cornerSearch: "scan",
       });
     },
     exchange: () => NO_EXCHANGE,
@@ -146,18 +165,35 @@ export const REGIME_TABLE: Readonly<Record<Regime, RegimeEntry>> = {
     words: "a longitude × latitude grid of cells, and what a distant observer receives",
     menuLabel: "surface map",
     colour: "#56B4E9",
+    // Hundreds of cells that exchange no heat, each solved alone, and an observer's phase curve.
+    pipeline: "map",
     heatStores: ["slab"],
     fields: ["spin.rate", "spin.axis"],
-    // Hundreds of cells that exchange no heat, each solved alone, and an observer's phase curve:
-    // src/run/simulateMap.ts and src/run/observeMap.ts, reached by `calorbit run` and `calorbit view`.
-    surface() {
-      throw new CalorbitError("INVALID_ARGUMENT", "the map regime has its own cell-by-cell solve", [
-        { path: "regime", given: "map", allowed: "calorbit run or calorbit view on the map scenario (not a single-surface solve)" },
-      ]);
-    },
+    surface: () => ownSolve("map"),
+    exchange: () => NO_EXCHANGE,
+  },
+  zonal: {
+    words: "the globe in latitude bands sharing heat by meridional diffusion, with ice and outgoing-radiation laws (climate)",
+    menuLabel: "latitude bands (climate)",
+    colour: "#F0E442",
+    // Bands coupled by diffusion, an albedo that feeds back on temperature, one or two climates.
+    pipeline: "zonal",
+    heatStores: ["slab"],
+    fields: ["spin.axis"],
+    surface: () => ownSolve("zonal"),
     exchange: () => NO_EXCHANGE,
   },
 };
+
+/** The surface builder of a regime whose pipeline is not the engine's single-surface solve. */
+function ownSolve(regime: Regime): never {
+  throw new CalorbitError("INVALID_ARGUMENT", `the ${regime} regime has its own solve`, [
+    { path: "regime", given: regime, allowed: `calorbit run, sweep or view on the ${regime} scenario (not the single-surface solve of compare or simulate)` },
+  ]);
+}
+
+/** The regimes the engine's `simulate` runs (compare's default list, the live viewer's menu). */
+export const SURFACE_REGIMES: readonly Regime[] = REGIMES.filter((r) => REGIME_TABLE[r].pipeline === "surface");
 
 /** The entry of a case's regime, refusing a heat store the regime cannot sit on. */
 export function regimeEntry(thermal: ThermalCase, storeKind: HeatStoreKind, table: Readonly<Record<Regime, RegimeEntry>> = REGIME_TABLE): RegimeEntry {

@@ -26,6 +26,13 @@ export interface Surface {
   solarDaySeconds?: number | null;
   /** True when the forcing has corners (sunrise, sunset, polar night). */
   forcingHasCorners: boolean;
+  /**
+   * How the periodic solve meets the corners: "scan", find each sunrise and sunset (a scan, then
+   * bisection) and end steps on them; "smooth", there are none inside the cycle after all (a band
+   * that never sees polar day or night); absent, corners fall inside steps and the fine tolerance
+   * they need is kept.
+   */
+  cornerSearch?: "scan" | "smooth";
 }
 
 /** A surface of one cell covering the whole modelled area. */

@@ -72,7 +72,7 @@ export function slabCycle(thermal: ThermalCase, model: SlabModel, request: Cycle
           stiffness: model.stiffness,
           maxStepsPerCycle: maxStepsPerOrbit * model.cycleOrbits,
           forcingHasCorners: model.forcingHasCorners,
-          ...breakpointsOf(thermal, model, startE),
+          ...breakpointsOf(model, startE),
           memoryEstimate: -Math.expm1((-model.cycleOrbits * orbit.periodSeconds) / model.radiativeTimeSeconds),
         },
         { relativeTolerance: rtol, samples: one, ...(request.integrator ? { integrator: request.integrator } : {}) },
@@ -102,7 +102,7 @@ export function slabCycle(thermal: ThermalCase, model: SlabModel, request: Cycle
         stiffness: model.stiffness,
         maxStepsPerCycle: maxStepsPerOrbit * model.cycleOrbits,
         forcingHasCorners: model.forcingHasCorners,
-        ...breakpointsOf(thermal, model, startE),
+        ...breakpointsOf(model, startE),
         memoryEstimate: -Math.expm1((-model.cycleOrbits * orbit.periodSeconds) / model.radiativeTimeSeconds),
       },
       { relativeTolerance: rtol, samples: grids.dense, ...(request.integrator ? { integrator: request.integrator } : {}) },
@@ -154,24 +154,24 @@ export function slabCycle(thermal: ThermalCase, model: SlabModel, request: Cycle
 }
 
 /**
- * The corners of the forcing, for the periodic solve to end steps on: a point's sunrises and
- * sunsets (a scan at a quarter of the statistics grid, then bisection), and none at all for a band
- * that never sees a polar day or night (|latitude| + obliquity < 90°), whose daily mean is smooth.
- * Other cases keep the fine tolerance that corners inside steps need.
+ * The corners of the forcing, for the periodic solve to end steps on, as the surface says to find
+ * them (`Surface.cornerSearch`): located by a scan at a quarter of the statistics grid and
+ * bisection, or none at all for a forcing that is smooth after all. Otherwise the solve keeps the
+ * fine tolerance that corners inside steps need.
  */
-function breakpointsOf(thermal: ThermalCase, model: SlabModel, startE: number): { breakpoints?: Float64Array } {
+function breakpointsOf(model: SlabModel, startE: number): { breakpoints?: Float64Array } {
   if (!model.forcingHasCorners) return {};
-  if (thermal.regime === "point") {
-    const end = startE + TWO_PI * model.cycleOrbits;
-    const scan = Math.ceil((model.statsPointsPerOrbit * model.cycleOrbits) / 4);
-    return { breakpoints: switchPoints((E) => model.absorbedAt(E, 0), startE, end, scan) };
+  switch (model.surface.cornerSearch) {
+    case "scan": {
+      const end = startE + TWO_PI * model.cycleOrbits;
+      const scan = Math.ceil((model.statsPointsPerOrbit * model.cycleOrbits) / 4);
+      return { breakpoints: switchPoints((E) => model.absorbedAt(E, 0), startE, end, scan) };
+    }
+    case "smooth":
+      return { breakpoints: new Float64Array(0) };
+    default:
+      return {};
   }
-  if (thermal.regime === "band") {
-    const obliquity = thermal.spin?.obliquityRad ?? 0;
-    const tilt = Math.min(obliquity, Math.PI - obliquity);
-    if (Math.abs(thermal.location?.latitudeRad ?? 0) + tilt < 0.5 * Math.PI - 1e-6) return { breakpoints: new Float64Array(0) };
-  }
-  return {};
 }
 
 /** Most orbits a seasonal summary spans, and most statistics points it may hold. */

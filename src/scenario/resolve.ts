@@ -229,8 +229,7 @@ function fromParsed(s: ParsedScenario, raw: unknown): ResolvedScenario {
       internalFluxWPerM2: s.body.internalFlux ?? 0,
       ...(incidence !== undefined ? { albedoIncidence: { a: incidence.a, b: incidence.b } } : {}),
     },
-    // A zonal case keeps "global" here (the globe as a whole); its solver reads `climate`.
-    regime: s.regime === undefined || s.regime === "zonal" ? "global" : s.regime,
+    regime: s.regime ?? "global",
     ...(s.thresholds ? { windowK: [s.thresholds[0], s.thresholds[1]] as const } : {}),
     exchange: {
       recirculation: s.body.recirculation ?? 0,

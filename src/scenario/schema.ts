@@ -145,11 +145,8 @@ export const bodySchema = z
   })
   .describe("The body's surface: albedo, emissivity, heat capacity (direct, or a layer of a material)");
 
-/**
- * The regimes a scenario may name: the engine's table, plus `zonal`, the climate of latitude bands,
- * which has its own solver (src/run/zonal.ts) and is selected through `climate` rather than a table row.
- */
-export const SCENARIO_REGIMES = [...REGIMES, "zonal"] as const;
+/** The regimes a scenario may name: the rows of the regimes table (`src/model/regimes.ts`). */
+export const SCENARIO_REGIMES = REGIMES;
 
 export const climateSchema = z
   .strictObject({

@@ -8,6 +8,7 @@ import { resolveScenario } from "../scenario/resolve.js";
 import { columnToleranceFor, DEFAULT_RELATIVE_TOLERANCE, simulate } from "../run/simulate.js";
 import { heatStoreOf } from "../model/heatStore.js";
 import type { ThermalCase } from "../model/thermalCase.js";
+import { REGIME_TABLE } from "../model/regimes.js";
 import { simulateZonal, zonalCaseOf } from "../run/zonal.js";
 import { observeMap } from "../run/observeMap.js";
 import { MAP_DEFAULT_TOLERANCE } from "../run/simulateMap.js";
@@ -327,11 +328,17 @@ export function caseCells(def: SweepDefinition, c: CaseValues): Cell[] {
     const doc = structuredClone(def.scenario);
     def.design.axes.forEach((a, d) => setPath(doc, a.path, c.values[d]!));
     const { thermal } = resolveScenario(doc);
-    metrics = thermal.climate
-      ? zonalMetrics(thermal)
-      : thermal.regime === "map"
-        ? mapMetrics(thermal, def.relativeTolerance)
-        : metricsOf(thermal, def.relativeTolerance);
+    switch (REGIME_TABLE[thermal.regime].pipeline) {
+      case "surface":
+        metrics = metricsOf(thermal, def.relativeTolerance);
+        break;
+      case "map":
+        metrics = mapMetrics(thermal, def.relativeTolerance);
+        break;
+      case "zonal":
+        metrics = zonalMetrics(thermal);
+        break;
+    }
   } catch (err) {
     status = `error: ${failureReason(err)}`.replace(/\s+/g, " ");
   }

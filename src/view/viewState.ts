@@ -3,7 +3,7 @@
  * written as the exact number the page computes with, so a shared link computes the same case.
  * Pure: the page reads and writes `location` itself.
  */
-import { REGIMES, type Regime } from "../model/thermalCase.js";
+import { SURFACE_REGIMES, type Regime } from "../model/regimes.js";
 import type { XAxis } from "./chartData.js";
 import { PARAMETERS, type ParameterValues } from "./parameters.js";
 
@@ -46,7 +46,7 @@ export function decodeViewState(query: string, initial: ViewState): ViewState {
   const spin = q.get("spin");
   if (spin !== null && spin.trim() !== "") values.spin = spin;
   const regime = q.get("regime");
-  if (regime !== null && (REGIMES as readonly string[]).includes(regime)) values.regime = regime as Regime;
+  if (regime !== null && (SURFACE_REGIMES as readonly string[]).includes(regime)) values.regime = regime as Regime;
   const x = q.get("x");
   const overlay = q.get("overlay");
   return {

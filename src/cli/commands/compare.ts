@@ -1,7 +1,7 @@
 /** `calorbit compare`: one scenario under several regimes, side by side. */
 import type { Command } from "commander";
 import { DEFAULT_RELATIVE_TOLERANCE, DEFAULT_SAMPLES } from "../../defaults.js";
-import { REGIMES, type Regime } from "../../model/thermalCase.js";
+import { REGIME_TABLE, REGIMES, SURFACE_REGIMES, type Regime } from "../../model/regimes.js";
 import { CalorbitError } from "../../errors.js";
 import { integerFlag, toleranceFlag, usage } from "../flags.js";
 import { refuseClobber } from "../outputPaths.js";
@@ -19,7 +19,12 @@ async function compareCommand(scenarioPath: string | undefined, flags: CompareFl
   const regimes = flags.regimes.split(",").map((r) => r.trim()).filter((r) => r.length > 0);
   const unknown = regimes.filter((r) => !(REGIMES as readonly string[]).includes(r));
   if (regimes.length === 0 || unknown.length > 0) {
-    throw usage("--regimes", JSON.stringify(flags.regimes), `a comma-separated list of ${REGIMES.join(", ")}`);
+    throw usage("--regimes", JSON.stringify(flags.regimes), `a comma-separated list of ${SURFACE_REGIMES.join(", ")}`);
+  }
+  // The map and the zonal climate have solves of their own, with outputs of their own: not a column beside the others.
+  const own = regimes.filter((r) => REGIME_TABLE[r as Regime].pipeline !== "surface");
+  if (own.length > 0) {
+    throw usage("--regimes", JSON.stringify(flags.regimes), `a comma-separated list of ${SURFACE_REGIMES.join(", ")} (${own.join(" and ")} ${own.length > 1 ? "have solves" : "has a solve"} of ${own.length > 1 ? "their" : "its"} own: use calorbit run)`);
   }
   const samples = integerFlag("--samples", flags.samples, 2, 10_000_000);
   refuseClobber("compare", [scenarioPath], [["--csv", flags.csv]]);
@@ -52,7 +57,7 @@ export function registerCompare(program: Command): void {
     .command("compare")
     .description("run one scenario under several regimes and put them side by side")
     .argument("[scenario]", "scenario file (YAML or JSON); the bundled demo when omitted")
-    .option("--regimes <list>", "comma-separated regimes", REGIMES.join(","))
+    .option("--regimes <list>", "comma-separated regimes", SURFACE_REGIMES.join(","))
     .option("--json", 'print { "results": [ { "regime", "summary" }, … ] }')
     .option("--csv <file>", "write T and T_eq of every regime on a shared time axis")
     .option("--samples <n>", "points on the shared time axis", String(DEFAULT_SAMPLES))

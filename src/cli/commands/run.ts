@@ -41,11 +41,12 @@ async function runCommand(scenarioPath: string | undefined, flags: RunFlags): Pr
     if (!(options.transient.startK > 0)) throw usage("--from", JSON.stringify(flags.from), "a temperature > 0 K");
   }
   // Loaded here, not at start-up: the scenario reader, the solvers and the writers.
-  const [{ loadScenario, writeFileAtomic }, { columnToleranceFor, simulate }, { heatStoreOf }, { seriesCsv }, { resultDocument }, { temperatureSvg }, { summaryText }, { resultWarnings }] =
+  const [{ loadScenario, writeFileAtomic }, { columnToleranceFor, simulate }, { heatStoreOf }, { REGIME_TABLE }, { seriesCsv }, { resultDocument }, { temperatureSvg }, { summaryText }, { resultWarnings }] =
     await Promise.all([
       import("../io.js"),
       import("../../run/simulate.js"),
       import("../../model/heatStore.js"),
+      import("../../model/regimes.js"),
       import("../../report/csv.js"),
       import("../../report/document.js"),
       import("../../report/svg.js"),
@@ -59,17 +60,22 @@ async function runCommand(scenarioPath: string | undefined, flags: RunFlags): Pr
     // Warnings go to stderr, never into the data on stdout; the JSON result lists them too.
     for (const w of warnings) warn(w);
   };
-  if (resolved.thermal.climate) return runZonal(resolved, flags, options, writeFileAtomic);
-  if (resolved.thermal.regime === "map") {
-    if (options.transient) throw usage("--from", JSON.stringify(flags.from ?? ""), "no transient mode for the map regime (it runs to its periodic state)");
-    if (integrator) throw usage("--integrator", JSON.stringify(flags.integrator), "the map regime chooses its integrator per cell");
-    const { runMap } = await import("./runMap.js");
-    await runMap(resolved, file, {
-      ...flags,
-      samples: options.samples ?? DEFAULT_SAMPLES,
-      tolerance: flags.tolerance === String(DEFAULT_RELATIVE_TOLERANCE) ? null : options.relativeTolerance!,
-    });
-    return;
+  switch (REGIME_TABLE[resolved.thermal.regime].pipeline) {
+    case "zonal":
+      return runZonal(resolved, flags, options, writeFileAtomic);
+    case "map": {
+      if (options.transient) throw usage("--from", JSON.stringify(flags.from ?? ""), "no transient mode for the map regime (it runs to its periodic state)");
+      if (integrator) throw usage("--integrator", JSON.stringify(flags.integrator), "the map regime chooses its integrator per cell");
+      const { runMap } = await import("./runMap.js");
+      await runMap(resolved, file, {
+        ...flags,
+        samples: options.samples ?? DEFAULT_SAMPLES,
+        tolerance: flags.tolerance === String(DEFAULT_RELATIVE_TOLERANCE) ? null : options.relativeTolerance!,
+      });
+      return;
+    }
+    case "surface":
+      break;
   }
   if (flags.mapCsv !== undefined || flags.mapAt !== undefined) {
     throw usage(flags.mapCsv !== undefined ? "--map-csv" : "--map-at", JSON.stringify(flags.mapCsv ?? flags.mapAt), "only for a scenario with regime: map");

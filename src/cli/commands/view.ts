@@ -12,8 +12,9 @@ interface ViewFlags {
 async function viewCommand(path: string | undefined, flags: ViewFlags): Promise<void> {
   const port = integerFlag("--port", flags.port, 0, 65535);
   // The engine, the writers and the HTTP server load only when the viewer starts.
-  const [{ heatStoreOf }, { resultDocument }, { simulate }, { parseSweepText, sweepTableFromRecords }, { loadScenarioDocument }, { startViewServer }, { resolveScenario }] = await Promise.all([
+  const [{ heatStoreOf }, { REGIME_TABLE }, { resultDocument }, { simulate }, { parseSweepText, sweepTableFromRecords }, { loadScenarioDocument }, { startViewServer }, { resolveScenario }] = await Promise.all([
     import("../../model/heatStore.js"),
+    import("../../model/regimes.js"),
     import("../../report/document.js"),
     import("../../run/simulate.js"),
     import("../../view/sweepData.js"),
@@ -37,18 +38,25 @@ async function viewCommand(path: string | undefined, flags: ViewFlags): Promise<
       throw usage("view", JSON.stringify(path ?? ""), "a scenario, a result written with run --json --series, or a sweep file");
     }
     const resolved = resolveScenario(document);
-    if (resolved.thermal.climate) {
-      const [{ zonalViewDocument }, { simulateZonal, zonalCaseOf }] = await Promise.all([import("../../report/zonalReport.js"), import("../../run/zonal.js")]);
-      const zonal = zonalCaseOf(resolved.thermal);
-      resultJson = JSON.stringify(zonalViewDocument(resolved, zonal, simulateZonal(zonal), resolved.thermal.climate, 200));
-    } else if (resolved.thermal.regime === "map") {
-      const [{ mapViewDocument }, { observeMap }, { readPassband }] = await Promise.all([import("../../report/mapReport.js"), import("../../run/observeMap.js"), import("./runMap.js")]);
-      resultJson = JSON.stringify(mapViewDocument(resolved, observeMap(readPassband(resolved, file), { samples: 400 })));
-    } else {
-      // One result for every heat store; a column's also carries its depth × time map (its series is
-      // interpolated from the column's steps: 400 points are plenty).
-      const sim = simulate(resolved.thermal, { samples: heatStoreOf(resolved.thermal).kind === "column" ? 400 : 2000 });
-      resultJson = JSON.stringify(sim.heatMap ? { kind: "column", ...resultDocument(resolved, sim, true), heatMap: sim.heatMap } : resultDocument(resolved, sim, true));
+    switch (REGIME_TABLE[resolved.thermal.regime].pipeline) {
+      case "zonal": {
+        const [{ zonalViewDocument }, { simulateZonal, zonalCaseOf }] = await Promise.all([import("../../report/zonalReport.js"), import("../../run/zonal.js")]);
+        const zonal = zonalCaseOf(resolved.thermal);
+        resultJson = JSON.stringify(zonalViewDocument(resolved, zonal, simulateZonal(zonal), zonal.climate, 200));
+        break;
+      }
+      case "map": {
+        const [{ mapViewDocument }, { observeMap }, { readPassband }] = await Promise.all([import("../../report/mapReport.js"), import("../../run/observeMap.js"), import("./runMap.js")]);
+        resultJson = JSON.stringify(mapViewDocument(resolved, observeMap(readPassband(resolved, file), { samples: 400 })));
+        break;
+      }
+      case "surface": {
+        // One result for every heat store; a column's also carries its depth × time map (its series is
+        // interpolated from the column's steps: 400 points are plenty).
+        const sim = simulate(resolved.thermal, { samples: heatStoreOf(resolved.thermal).kind === "column" ? 400 : 2000 });
+        resultJson = JSON.stringify(sim.heatMap ? { kind: "column", ...resultDocument(resolved, sim, true), heatMap: sim.heatMap } : resultDocument(resolved, sim, true));
+        break;
+      }
     }
   }
   const viewer = await startViewServer(resultJson, port);
