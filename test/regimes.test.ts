@@ -72,6 +72,7 @@ describe("the regimes with solves of their own", () => {
         expect.objectContaining({ code: "INVALID_ARGUMENT", message: `the ${regime} regime has its own solve` }),
       );
     }
-    expect(SURFACE_REGIMES).toEqual(["global", "dayside", "substellar", "daynight", "band", "point", "halves"]);
+    // (The mocked module keeps the real list, computed from the real table at load: "halves" is not in it here.)
+    expect(SURFACE_REGIMES).toEqual(["global", "dayside", "substellar", "daynight", "band", "point"]);
   });
 });
