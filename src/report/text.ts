@@ -5,7 +5,7 @@ import type { ResolvedScenario } from "../scenario/resolve.js";
 import type { TemperatureStats } from "../analysis/summarise.js";
 import type { Simulation } from "../run/simulate.js";
 import { VERSION } from "../version.js";
-import { cycleWords, lagWords } from "./wording.js";
+import { columnStepSeconds, cycleWords, lagWords } from "./wording.js";
 import { ZERO_CELSIUS_K } from "../constants.js";
 import { au, days, degrees, duration, fixed, sig, solarLuminosities, solarMasses } from "./format.js";
 
@@ -115,7 +115,7 @@ export function summaryText(resolved: ResolvedScenario, sim: Simulation, options
   }
   if (s.cycleSeconds > P * 1.000001) lines.push(`  cycle       ${sig(s.cycleSeconds / P, 3)} orbits (the spin–orbit resonance repeats)`);
   // A lag that would print as 0.000, a flat temperature called "circular", a multi-orbit cycle called "the orbit": words that say what the number is.
-  lines.push(`  lag of maximum after periastron   ${lagWords(s, resolved.thermal.orbit.eccentricity)}`);
+  lines.push(`  lag of maximum after periastron   ${lagWords(s, resolved.thermal.orbit.eccentricity, columnStepSeconds(s, solver))}`);
   lines.push(
     s.dampingRatio === null
       ? `  damping ratio (T swing / Teq swing)   none (${s.notes?.dampingRatio ?? "not defined here"})`

@@ -21,9 +21,16 @@ export interface LagInput {
  * The lag of the maximum after periastron: "46.6 d (0.163 of the orbit)", "2.3 h (0.034 % of the
  * orbit)"; when there is none, why: a circular orbit has no periastron, a constant temperature no maximum.
  */
-export function lagWords(s: LagInput, eccentricity: number): string {
+export function lagWords(s: LagInput, eccentricity: number, resolutionSeconds?: number): string {
   if (s.lagSeconds === null) return eccentricity === 0 ? "none (circular orbit)" : "none (no swing)";
+  // A conduction column's extremes sit on its time steps: a lag shorter than one step is not resolved.
+  if (resolutionSeconds !== undefined && s.lagSeconds < resolutionSeconds) return `under one time step (${duration(resolutionSeconds)}): not resolved`;
   return `${duration(s.lagSeconds)} (${fractionWords(s.lagSeconds / s.periodSeconds)} of the orbit)`;
+}
+
+/** The time step of a conduction column's solve, s (its extremes are resolved to it); undefined for a slab. */
+export function columnStepSeconds(s: { cycleSeconds: number }, solver: { stepsPerCycle?: number }): number | undefined {
+  return solver.stepsPerCycle ? s.cycleSeconds / solver.stepsPerCycle : undefined;
 }
 
 /** "of the orbit", or "of the cycle (2 orbits)" when the summarised cycle spans several orbits. */
