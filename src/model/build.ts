@@ -73,7 +73,7 @@ export interface SlabModel extends ModelCommon {
   stiffness: number;
 }
 
-/** A conduction column under the (one) cell: solved by the column solver. */
+/** A conduction column under every cell (cells with no exchange: one column solve each). */
 export interface ColumnModel extends ModelCommon {
   kind: "column";
   heatStore: ColumnStore;
@@ -149,6 +149,13 @@ export function buildThermalModel(thermal: ThermalCase): ThermalModel {
 
   switch (store.kind) {
     case "column":
+      if (exchange.kind !== "none") {
+        // Exchanging cells on columns would couple their surface balances (one Jacobian over every
+        // cell's layers): not solved yet, so refused rather than run as independent columns.
+        throw new CalorbitError("INVALID_ARGUMENT", `cells that exchange heat (${exchange.kind}) cannot sit on conduction columns yet`, [
+          { path: "body.column", given: `a conduction column under cells with a ${exchange.kind} exchange`, allowed: "a slab (body.heatCapacity or body.layer) under exchanging cells, or columns under cells with no exchange" },
+        ]);
+      }
       return { ...common, kind: "column", heatStore: store, radiativeTimeSeconds: null };
     case "slab": {
       const properties: SurfaceProperties = { ...thermal.surface, heatCapacityJPerM2K: store.heatCapacityJPerM2K };

@@ -1,8 +1,10 @@
 /**
- * The converged cycle of a surface on a conduction column: the regime's forcing drives the column
- * (Crank–Nicolson, `src/solve/columnSolver.ts`) to its periodic state; the surface temperature on
- * the solver's step grid (uniform in E) is the statistics grid, the output grid is interpolated
- * from it, and the depth profile, skin depths and layer map are the column's extras.
+ * The converged cycle of a surface on conduction columns: each cell's forcing drives its own column
+ * (Crank–Nicolson, `src/solve/columnSolver.ts`) to its periodic state; the surface temperatures on
+ * the solver's step grid (uniform in E) are the statistics grid, the output grid is interpolated
+ * from it, and the depth profile, skin depths and layer map are the column's extras (the first
+ * cell's, as the summary's top-level numbers are). Cells under columns exchange no heat (the model
+ * refuses an exchange there), so the columns are independent and the cost is linear in the cells.
  */
 import { anomaliesUniformInTime } from "../analysis/orbitSampling.js";
 import { CalorbitError, requireNumber } from "../errors.js";
@@ -51,22 +53,28 @@ export function columnCycle(thermal: ThermalCase, model: ColumnModel, request: C
   const orbitalM = skinDepthM(p.conductivityDeep, p.densityDeep, cRef, cycleSeconds);
   const grid = buildColumnGrid(p, shortSkin, orbitalM, column.grid);
   const stepsPerCycle = Math.min(2_000_000, Math.max(64, Math.ceil(column.grid.stepsPerShortestPeriod * (cycleSeconds / shortest))));
-  const result = solveColumnPeriodic(
-    {
-      properties: p,
-      grid,
-      emissivity: thermal.surface.emissivity,
-      interiorFluxWPerM2: column.interiorFluxWPerM2,
-      absorbedAt: (E) => model.absorbedAt(E, 0),
-      timeAt: (E) => timeAtEccentric(orbit, E),
-      startE: request.startE,
-      cycleLength: TWO_PI * model.cycleOrbits,
-      stepsPerCycle,
-      initialK: tRef,
-      shortSkinDepthM: shortSkin,
-    },
-    rtol,
+  // Cells that exchange no heat: one column under each, solved on its own (the same grid and steps,
+  // so the step grids coincide); the first cell's column gives the depth extras.
+  const cellCount = model.stateNames.length;
+  const results = model.stateNames.map((_, i) =>
+    solveColumnPeriodic(
+      {
+        properties: p,
+        grid,
+        emissivity: thermal.surface.emissivity,
+        interiorFluxWPerM2: column.interiorFluxWPerM2,
+        absorbedAt: (E) => model.absorbedAt(E, i),
+        timeAt: (E) => timeAtEccentric(orbit, E),
+        startE: request.startE,
+        cycleLength: TWO_PI * model.cycleOrbits,
+        stepsPerCycle,
+        initialK: tRef,
+        shortSkinDepthM: shortSkin,
+      },
+      rtol,
+    ),
   );
+  const result = results[0]!;
 
   // Statistics on the step grid (uniform in E). dT/dE: the harmonic mean of the two one-sided
   // slopes, zero where they differ in sign (Fritsch & Butland 1984): second order where T is smooth
@@ -74,23 +82,28 @@ export function columnCycle(thermal: ThermalCase, model: ColumnModel, request: C
   // minimum below every step (1.4 K below on the regolith demo). The last point is the first of the
   // next cycle.
   const statsE = result.stepE;
-  const surfaceK = result.surfaceK;
   const steps = statsE.length - 1;
   const h = statsE[1]! - statsE[0]!;
-  const statsDerivative = new Float64Array(steps + 1);
-  for (let k = 0; k <= steps; k++) {
-    const here = surfaceK[k]!;
-    const back = (here - surfaceK[k === 0 ? steps - 1 : k - 1]!) / h;
-    const ahead = (surfaceK[k === steps ? 1 : k + 1]! - here) / h;
-    statsDerivative[k] = back * ahead > 0 ? (2 * back * ahead) / (back + ahead) : 0;
-  }
+  const statsY = new Float64Array((steps + 1) * cellCount);
+  const statsDerivative = new Float64Array((steps + 1) * cellCount);
+  results.forEach((cell, i) => {
+    const surfaceK = cell.surfaceK;
+    for (let k = 0; k <= steps; k++) {
+      const here = surfaceK[k]!;
+      const back = (here - surfaceK[k === 0 ? steps - 1 : k - 1]!) / h;
+      const ahead = (surfaceK[k === steps ? 1 : k + 1]! - here) / h;
+      statsY[k * cellCount + i] = here;
+      statsDerivative[k * cellCount + i] = back * ahead > 0 ? (2 * back * ahead) / (back + ahead) : 0;
+    }
+  });
+  const surfaceK = result.surfaceK;
 
   // Output grid, uniform in time, interpolated linearly in time from the fine step grid.
   const count = request.samples(model.cycleOrbits);
   const n = grid.thicknessM.length;
   const times = Float64Array.from(statsE, (E) => timeAtEccentric(orbit, E));
   const outputE = anomaliesUniformInTime(orbit, request.startE, model.cycleOrbits, count);
-  const outputY = new Float64Array(count);
+  const outputY = new Float64Array(count * cellCount);
   const depths = column.outputDepthsM.map((depthM) => ({ depthM, temperatureK: new Float64Array(count) }));
   const layerAt = (step: number, z: number): number => {
     // Linear in depth between layer centres (the surface node above the first centre).
@@ -108,7 +121,7 @@ export function columnCycle(thermal: ThermalCase, model: ColumnModel, request: C
     const t = timeAtEccentric(orbit, outputE[j]!);
     while (k < steps - 1 && times[k + 1]! < t) k++;
     const w = Math.min(1, Math.max(0, (t - times[k]!) / (times[k + 1]! - times[k]!)));
-    outputY[j] = (1 - w) * surfaceK[k]! + w * surfaceK[k + 1]!;
+    for (let i = 0; i < cellCount; i++) outputY[j * cellCount + i] = (1 - w) * results[i]!.surfaceK[k]! + w * results[i]!.surfaceK[k + 1]!;
     for (const d of depths) d.temperatureK[j] = (1 - w) * layerAt(k, d.depthM) + w * layerAt(k + 1, d.depthM);
   }
 
@@ -119,9 +132,25 @@ export function columnCycle(thermal: ThermalCase, model: ColumnModel, request: C
     heatMap.temperatureK.push(Array.from(result.layerK.subarray(kk * n, kk * n + n)));
   }
   const q = column.interiorFluxWPerM2;
+  // The whole surface's budget: each column's own (its scheme's), area-weighted.
+  let absorbed = 0;
+  let stellar = 0;
+  let emitted = 0;
+  let cycles = 0;
+  let mostCycles = 0;
+  let periodicity = 0;
+  results.forEach((cell, i) => {
+    const w = model.areaWeights[i]!;
+    stellar += w * cell.meanAbsorbedWPerM2;
+    absorbed += w * (cell.meanAbsorbedWPerM2 + q);
+    emitted += w * cell.meanEmittedWPerM2;
+    cycles += cell.cycles;
+    mostCycles = Math.max(mostCycles, cell.cycles);
+    periodicity = Math.max(periodicity, cell.periodicityResidual);
+  });
   return {
     statsE,
-    statsY: surfaceK,
+    statsY,
     statsDerivative,
     outputE,
     outputY,
@@ -131,12 +160,12 @@ export function columnCycle(thermal: ThermalCase, model: ColumnModel, request: C
       integrator: "crank-nicolson",
       requestedTolerance: rtol,
       odeRelativeTolerance: null,
-      iterations: result.cycles,
-      orbitsIntegrated: result.cycles * model.cycleOrbits,
-      periodicityResidual: result.periodicityResidual,
-      steps: stepsPerCycle * result.cycles,
+      iterations: mostCycles,
+      orbitsIntegrated: cycles * model.cycleOrbits,
+      periodicityResidual: periodicity,
+      steps: stepsPerCycle * cycles,
       rejectedSteps: 0,
-      evaluations: stepsPerCycle * result.cycles,
+      evaluations: stepsPerCycle * cycles,
       layers: n,
       stepsPerCycle,
     },
@@ -146,7 +175,11 @@ export function columnCycle(thermal: ThermalCase, model: ColumnModel, request: C
       depthProfile: Array.from(grid.centreM, (z, i) => ({ depthM: z, minK: result.profileMinK[i]!, maxK: result.profileMaxK[i]!, meanK: result.profileMeanK[i]! })),
       depths,
       heatMap,
-      energy: { meanAbsorbedWPerM2: result.meanAbsorbedWPerM2 + q, meanEmittedWPerM2: result.meanEmittedWPerM2, residual: result.energyBalanceResidual },
+      energy: {
+        meanAbsorbedWPerM2: absorbed,
+        meanEmittedWPerM2: emitted,
+        residual: cellCount === 1 ? result.energyBalanceResidual : (absorbed - emitted) / stellar,
+      },
     },
   };
 }
