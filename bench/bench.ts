@@ -22,6 +22,7 @@ import { loadavg } from "node:os";
 import { fileURLToPath } from "node:url";
 import { simulate, type Simulation, type ThermalCase } from "../src/index.js";
 import { AU, bandCase, dayNightCase, meanFluxEquilibriumK, pointCase, slabCase, SOLAR_LUMINOSITY } from "./cases.js";
+import { cellsFigures } from "./cells.js";
 import { climateBenchLines } from "./climate.js";
 import { columnCase, columnSpec } from "./columnCase.js";
 import { fitBenchmarks } from "./fitRun.js";
@@ -325,6 +326,16 @@ for (const [days, targetS] of [
 {
   const { figures, wrong } = mapFigures();
   for (const f of figures) figure(f.name, fmt(f.value), f.unit, f.target, f.met, f.details ?? "");
+  for (const line of wrong) {
+    failures.push(line);
+    console.log(`WRONG ${line}`);
+  }
+}
+
+// 9b. Many cells (bench/cells.ts): coupled slab cells (dense and Newton–Krylov shooting) and independent columns, each checked.
+{
+  const { figures, wrong } = cellsFigures(quick);
+  for (const f of figures) figure(f.name, fmt(f.value), f.unit, f.target, f.met, f.details);
   for (const line of wrong) {
     failures.push(line);
     console.log(`WRONG ${line}`);

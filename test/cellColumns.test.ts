@@ -24,6 +24,7 @@ const SHADES: RegimeEntry = {
   words: "test only: three cells under the global forcing times 1, 0.5 and 0.1, no exchange",
   menuLabel: "shades (test)",
   colour: "#56B4E9",
+  pipeline: "surface",
   heatStores: ["slab", "column"],
   fields: [],
   surface: (t) => {

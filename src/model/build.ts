@@ -8,6 +8,7 @@
 import { STEFAN_BOLTZMANN } from "../constants.js";
 import { CalorbitError, requireNumber } from "../errors.js";
 import type { ThermalCase } from "./thermalCase.js";
+import { ConductanceExchange } from "../physics/conductance.js";
 import { DayNightBalance } from "../physics/dayNight.js";
 import { LumpedBalance, radiativeTimeSeconds, type SurfaceProperties } from "../physics/energyBalance.js";
 import { equilibriumTemperatureFrom } from "../physics/flux.js";
@@ -101,11 +102,15 @@ function statisticsPointsPerOrbit(eccentricity: number, solarDaysPerOrbit: numbe
   return Math.min(1 << 20, Math.max(forPeriastron, forCorners, Math.ceil(STATISTICS_POINTS_PER_SOLAR_DAY * solarDaysPerOrbit)));
 }
 
-export function buildThermalModel(thermal: ThermalCase): ThermalModel {
+/**
+ * The model of a case. `regime` is the case's row of the regimes table by default; a caller-made
+ * row serves surfaces that no regime builds yet (a benchmark's many exchanging cells).
+ */
+export function buildThermalModel(thermal: ThermalCase, regime?: RegimeEntry): ThermalModel {
   checkOrbit(thermal.orbit);
   requireNumber("star.luminosity", thermal.star.luminosityW, (l) => l > 0, "L > 0 W");
   const store: HeatStore = heatStoreOf(thermal);
-  const entry = regimeEntry(thermal, store.kind);
+  const entry = regime ?? regimeEntry(thermal, store.kind);
   if (thermal.surface.albedoIncidence && thermal.regime !== "point" && thermal.regime !== "substellar") {
     throw new CalorbitError("INVALID_ARGUMENT", "an incidence-dependent albedo needs one place on the surface", [
       { path: "body.albedoIncidence", given: `with regime ${thermal.regime}`, allowed: "regime point (or substellar, where it is A₀)" },
@@ -169,6 +174,9 @@ export function buildThermalModel(thermal: ThermalCase): ThermalModel {
             system = new SlabCells(orbit, properties, cells, null);
             independentCells = cells.map((cell) => new LumpedBalance(orbit, properties, cell.forcing));
           }
+          break;
+        case "conductance":
+          system = new SlabCells(orbit, properties, cells, new ConductanceExchange(exchange.links, common.areaWeights));
           break;
         case "dayNight": {
           const balance = new DayNightBalance(orbit, properties, thermal.star.luminosityW, exchange);

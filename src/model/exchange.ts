@@ -3,6 +3,8 @@
  * - none: every cell on its own (one cell, or independent points);
  * - dayNight: the two-hemisphere exchange of `src/physics/dayNight.ts` (a recirculation
  *   efficiency, or an exchange coefficient k (T_day − T_night));
+ * - conductance: links between pairs of cells carrying G (T_b − T_a) (`src/physics/conductance.ts`):
+ *   discretised diffusion between bands or grid cells, any number of cells;
  * later kinds (diffusion between latitude bands, advection along longitude) add a member here,
  * their operator in their own physics module, and a case in `exchangeOperator` below.
  *
@@ -12,6 +14,7 @@
  * weighting is the one documented exception: its dayside is a brightness, not a budget, and
  * `exchangeIsBudget` says so). The compiler flags every `switch (exchange.kind)` to extend.
  */
+import type { ConductanceLink } from "../physics/conductance.js";
 import type { DaysideWeighting } from "../physics/dayNight.js";
 
 export interface NoExchange {
@@ -27,7 +30,13 @@ export interface DayNightExchange {
   weighting: DaysideWeighting;
 }
 
-export type Exchange = NoExchange | DayNightExchange;
+export interface ConductanceExchangeSpec {
+  kind: "conductance";
+  /** Linked cell pairs, each with its conductance per unit of the whole surface's area. */
+  links: readonly ConductanceLink[];
+}
+
+export type Exchange = NoExchange | DayNightExchange | ConductanceExchangeSpec;
 export type ExchangeKind = Exchange["kind"];
 
 /** True when the exchange can carry heat into a cell the star never lights (the night side). */
@@ -37,6 +46,8 @@ export function exchangeCarriesHeat(exchange: Exchange): boolean {
       return false;
     case "dayNight":
       return exchange.recirculation > 0 || exchange.coefficientWPerM2K > 0;
+    case "conductance":
+      return exchange.links.some((link) => link.conductanceWPerM2K > 0);
   }
 }
 
@@ -47,6 +58,8 @@ export function exchangeIsBudget(exchange: Exchange): boolean {
       return true;
     case "dayNight":
       return exchange.weighting === "uniform";
+    case "conductance":
+      return true;
   }
 }
 
@@ -59,4 +72,9 @@ export interface ExchangeOperator {
   addFlux(E: number, temperatureK: ArrayLike<number>, out: Float64Array): void;
   /** Adds ∂X_i/∂T_j to jacobian[i·n + j] (row-major, n cells). */
   addJacobian(E: number, temperatureK: ArrayLike<number>, jacobian: Float64Array): void;
+  /**
+   * Optional: adds (∂X/∂T) v to out, without forming the n × n Jacobian. A matrix-free periodic
+   * solve of many cells uses it (cost of a pass over the sparse couplings instead of n²).
+   */
+  addJacobianProduct?(E: number, temperatureK: ArrayLike<number>, v: ArrayLike<number>, out: Float64Array): void;
 }

@@ -19,6 +19,8 @@ export class SlabCells implements OdeSystem {
   private readonly inverseC: number;
   private readonly q: number;
   private readonly flux: Float64Array;
+  /** Scratch for an exchange without a product of its own (made on first use). */
+  private denseJacobian: Float64Array | undefined;
 
   constructor(
     orbit: Orbit,
@@ -51,6 +53,29 @@ export class SlabCells implements OdeSystem {
     if (this.exchange) this.exchange.addFlux(x, y, flux);
     const g = this.timePerAnomaly(x) * this.inverseC;
     for (let i = 0; i < n; i++) out[i] = g * flux[i]!;
+  }
+
+  /** (∂f/∂y) v: the diagonal of the emission plus the exchange's product (its own, or through its dense Jacobian). */
+  jacobianProduct(x: number, y: ArrayLike<number>, v: ArrayLike<number>, out: Float64Array): void {
+    const n = this.dimension;
+    for (let i = 0; i < n; i++) {
+      const t = y[i]!;
+      out[i] = -4 * this.emission * t * t * t * v[i]!;
+    }
+    const exchange = this.exchange;
+    if (exchange?.addJacobianProduct) exchange.addJacobianProduct(x, y, v, out);
+    else if (exchange) {
+      const jac = (this.denseJacobian ??= new Float64Array(n * n));
+      jac.fill(0);
+      exchange.addJacobian(x, y, jac);
+      for (let i = 0; i < n; i++) {
+        let s = 0;
+        for (let j = 0; j < n; j++) s += jac[i * n + j]! * v[j]!;
+        out[i] = out[i]! + s;
+      }
+    }
+    const g = this.timePerAnomaly(x) * this.inverseC;
+    for (let i = 0; i < n; i++) out[i] = g * out[i]!;
   }
 
   jacobian(x: number, y: ArrayLike<number>, out: Float64Array): void {

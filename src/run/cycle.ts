@@ -5,6 +5,7 @@
  */
 import type { DepthRow } from "../analysis/summarise.js";
 import type { IntegratorName } from "../solve/periodic.js";
+import type { PeriodicMethod } from "../solve/periodicKrylov.js";
 
 export interface SolverReport {
   /** periodic: the exact cycle; seasonal: a non-commensurate spin, integrated orbit after orbit until the start is forgotten; transient: as asked. */
@@ -35,6 +36,8 @@ export interface CycleRequest {
   /** Points in the output series for a span of this many orbits. */
   samples(spanOrbits: number): number;
   transient?: { startK: number; orbits: number };
+  /** Periodic solve of coupled slab cells (a cross-check); default by the state's size (`choosePeriodicMethod`). */
+  periodicMethod?: PeriodicMethod;
 }
 
 /** The column's extras: depth profile, skin depths, layer temperatures over the cycle. */

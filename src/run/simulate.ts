@@ -14,6 +14,7 @@ import { DEFAULT_RELATIVE_TOLERANCE, DEFAULT_SAMPLES, INTEGRATORS, type Integrat
 import { columnCycle, columnToleranceFor, DEFAULT_COLUMN_TOLERANCE } from "./columnCycle.js";
 import type { ColumnCycleExtras, ConvergedCycle, CycleRequest, SolverReport } from "./cycle.js";
 import { isDark, slabCycle } from "./slabCycle.js";
+import { PERIODIC_METHODS, type PeriodicMethod } from "../solve/periodicKrylov.js";
 
 export { DEFAULT_RELATIVE_TOLERANCE, DEFAULT_SAMPLES, INTEGRATORS, type IntegratorName, type SolverReport, columnToleranceFor, DEFAULT_COLUMN_TOLERANCE };
 
@@ -32,6 +33,11 @@ export interface SimulateOptions {
   samples?: number;
   /** Transient mode (slab only): start at this temperature (K, every cell) and integrate `orbits` orbits; no shooting. */
   transient?: { startK: number; orbits: number };
+  /**
+   * Periodic solve of slab cells that exchange heat: "dense" (variational equations, ~n³ per step)
+   * or "newton-krylov" (matrix-free, ~n per product); by default chosen by the number of cells. A cross-check.
+   */
+  periodicMethod?: PeriodicMethod;
 }
 
 /** One cell's history (a surface, a hemisphere, a band). */
@@ -82,6 +88,11 @@ export function simulate(thermal: ThermalCase, options: SimulateOptions = {}): S
   const model = buildThermalModel(thermal);
   const rtol = options.relativeTolerance ?? (model.kind === "column" ? DEFAULT_COLUMN_TOLERANCE : DEFAULT_RELATIVE_TOLERANCE);
   requireNumber("tolerance", rtol, (t) => t >= 1e-13 && t <= 1e-2, "1e-13 ≤ tolerance ≤ 1e-2");
+  if (options.periodicMethod !== undefined && !PERIODIC_METHODS.includes(options.periodicMethod)) {
+    throw new CalorbitError("INVALID_ARGUMENT", "unknown periodic method", [
+      { path: "periodicMethod", given: String(options.periodicMethod), allowed: PERIODIC_METHODS.join(", ") },
+    ]);
+  }
   if (options.transient) {
     requireNumber("from", options.transient.startK, (t) => t > 0, "a temperature > 0 K");
     requireNumber("orbits", options.transient.orbits, (k) => Number.isInteger(k) && k >= 1 && k <= 100_000, "an integer from 1 to 100,000");
@@ -98,6 +109,7 @@ export function simulate(thermal: ThermalCase, options: SimulateOptions = {}): S
     },
     ...(options.integrator ? { integrator: options.integrator } : {}),
     ...(options.transient ? { transient: options.transient } : {}),
+    ...(options.periodicMethod ? { periodicMethod: options.periodicMethod } : {}),
   };
   let cycle: ConvergedCycle;
   switch (model.kind) {

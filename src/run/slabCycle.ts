@@ -11,6 +11,7 @@ import { exchangeCarriesHeat } from "../model/exchange.js";
 import type { ThermalCase } from "../model/thermalCase.js";
 import { chooseIntegrator, integrateCycle, plainOdeTolerance, solvePeriodic, type IntegratorName } from "../solve/periodic.js";
 import { switchPoints } from "../solve/corners.js";
+import { choosePeriodicMethod, solvePeriodicKrylov } from "../solve/periodicKrylov.js";
 import { addWork, emptyWork, type SolverWork } from "../solve/system.js";
 import type { ConvergedCycle, CycleRequest, SolverReport } from "./cycle.js";
 
@@ -92,7 +93,9 @@ export function slabCycle(thermal: ThermalCase, model: SlabModel, request: Cycle
   if (mode === "periodic") {
     const y0 = guessStart(model, thermal);
     const grids = makeGrids(orbit, startE, spanOrbits, summaryOrbits, sampleCount, model.statsPointsPerOrbit, n);
-    const result = solvePeriodic(
+    // Coupled cells: the dense variational equations for a few, matrix-free Newton–Krylov for many.
+    const krylov = (request.periodicMethod ?? choosePeriodicMethod(n)) === "newton-krylov";
+    const result = (krylov ? solvePeriodicKrylov : solvePeriodic)(
       {
         system: model.system,
         start: startE,
@@ -103,7 +106,9 @@ export function slabCycle(thermal: ThermalCase, model: SlabModel, request: Cycle
         maxStepsPerCycle: maxStepsPerOrbit * model.cycleOrbits,
         forcingHasCorners: model.forcingHasCorners,
         ...breakpointsOf(model, startE),
-        memoryEstimate: -Math.expm1((-model.cycleOrbits * orbit.periodSeconds) / model.radiativeTimeSeconds),
+        memoryEstimate: krylov
+          ? slowestMemory(model, y0, orbit.periodSeconds)
+          : -Math.expm1((-model.cycleOrbits * orbit.periodSeconds) / model.radiativeTimeSeconds),
       },
       { relativeTolerance: rtol, samples: grids.dense, ...(request.integrator ? { integrator: request.integrator } : {}) },
     );
@@ -151,6 +156,18 @@ export function slabCycle(thermal: ThermalCase, model: SlabModel, request: Cycle
   const cycle = converged(model, grids, solver, elapsedSeconds);
   if (mode === "seasonal") cycle.seasonal = { orbits: beat, orbitMeanK: orbitMeanSpread(model, cycle.statsE, cycle.statsY, beat) };
   return cycle;
+}
+
+/**
+ * 1 − exp(−cycle/τ) of the cell that forgets slowest on its own, τ = C/(4εσT³) at its first-guess
+ * temperature: a lower bound on the memory loss of the coupled cycle map (an exchange only adds
+ * decay to the differences between cells), which the Newton–Krylov solve cannot measure cheaply.
+ */
+function slowestMemory(model: SlabModel, guess: Float64Array, periodSeconds: number): number {
+  let coldest = Infinity;
+  for (let i = 0; i < guess.length; i++) coldest = Math.min(coldest, guess[i]!);
+  const tau = model.heatStore.heatCapacityJPerM2K / (4 * model.emissionCoefficient * coldest ** 3);
+  return -Math.expm1((-model.cycleOrbits * periodSeconds) / tau);
 }
 
 /**

@@ -30,30 +30,30 @@ export const STIFFNESS_THRESHOLD = 800;
  * tolerance 1e-12: ODE share 0.01 gives temperatures within 8e-10 and residuals within 3e-9 at
  * rtol 1e-8 (0.001 was no more accurate and cost 40 % more evaluations; 0.1 gave 2.4e-9).
  */
-const ODE_TOLERANCE_SHARE = 0.01;
+export const ODE_TOLERANCE_SHARE = 0.01;
 /**
  * Sunrise and sunset put corners in a point's forcing, where an embedded error estimate underrates
  * the error of a step across them. Measured on a point with 2001 solar days per orbit: share 0.01
  * left the mean temperature 2e-7 off at rtol 1e-8, 1e-3 left 1e-8, 1e-4 left 2e-9.
  */
-const CORNER_ODE_TOLERANCE_SHARE = 1e-4;
+export const CORNER_ODE_TOLERANCE_SHARE = 1e-4;
 /**
  * Share when the corners are step ends (breakpoints): the state just after a sunrise still moves
  * fastest there. Measured on a 2 cm skin at a 3:2 resonance (night minimum 29 K): share 0.01 left
  * the minimum 1.2e-8 from odex at 1e-11, 1e-3 within 1e-8, at 4× fewer evaluations than share 1e-4
  * with the corners inside steps.
  */
-const ARC_ODE_TOLERANCE_SHARE = 1e-3;
+export const ARC_ODE_TOLERANCE_SHARE = 1e-3;
 /** Share for a plain integration (transient, seasonal): no periodicity defect to leave room for. */
 const PLAIN_ODE_TOLERANCE_SHARE = 0.1;
-const CONVERGENCE_SHARE = 0.1;
+export const CONVERGENCE_SHARE = 0.1;
 /** Below this the ODE tolerance is not tightened further (double precision). */
-const FINEST_ODE_TOLERANCE = 1e-14;
-const MAX_ITERATIONS = 40;
+export const FINEST_ODE_TOLERANCE = 1e-14;
+export const MAX_ITERATIONS = 40;
 /** Early passes need not be finer than this: they only bring y₀ near the fixed point. */
 const COARSEST_ODE_TOLERANCE = 1e-6;
 /** Relative error assumed for the linear-response first guess when choosing the first pass's tolerance. */
-const FIRST_GUESS_ERROR = 1e-3;
+export const FIRST_GUESS_ERROR = 1e-3;
 
 /** "dormand-prince": explicit 5(4) pair; "radau": implicit Radau IIA; "odex": extrapolation (the odex package), on request only. */
 export { INTEGRATORS, type IntegratorName };
@@ -104,7 +104,7 @@ export interface PeriodicResult {
    * correction was applied without another cycle, the bound (|Δ|/scale)² on what remains.
    */
   periodicityResidual: number;
-  /** Largest eigen-like contraction: the diagonal of ∂Φ/∂y₀ (1 = no memory loss). */
+  /** Largest eigen-like contraction: the diagonal of ∂Φ/∂y₀ (1 = no memory loss); empty from the Newton–Krylov solve, which never forms ∂Φ/∂y₀. */
   monodromyDiagonal: Float64Array;
   integrator: IntegratorName;
   odeRelativeTolerance: number;
@@ -269,7 +269,7 @@ export function integrateCycle(
  * integration error δ moves the computed fixed point by about δ/(1 − Φ'), so it is held to a
  * hundredth of the error expected after the step, times the memory factor 1 − Φ'.
  */
-function coarsePassTolerance(expectedError: number, memory: number, finalTolerance: number): number {
+export function coarsePassTolerance(expectedError: number, memory: number, finalTolerance: number): number {
   return Math.max(finalTolerance, Math.min(COARSEST_ODE_TOLERANCE, 0.01 * expectedError * memory));
 }
 

@@ -11,6 +11,8 @@ export interface OdeSystem {
   jacobian(x: number, y: ArrayLike<number>, out: Float64Array): void;
   /** Optional: both at once, for systems where they share costly terms (the shooting loop calls this on every step). */
   derivativeAndJacobian?(x: number, y: ArrayLike<number>, out: Float64Array, jacobianOut: Float64Array): void;
+  /** Optional: (∂f/∂y) v at (x, y) into `out`, without forming the matrix (a matrix-free periodic solve of a large state uses it). */
+  jacobianProduct?(x: number, y: ArrayLike<number>, v: ArrayLike<number>, out: Float64Array): void;
 }
 
 /** Work done by an integrator, summed over calls. */
