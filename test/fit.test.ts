@@ -343,3 +343,86 @@ describe("phase-curve fit (map regime, flux ratio)", () => {
     expect(ratio).toBeLessThan(6);
   });
 });
+
+/**
+ * The zonal climate against North's analytic solution (North 1975, J. Atmos. Sci. 32, 1301): with
+ * outgoing radiation A + B·T(°C), a constant albedo and diffusion D in x = sin latitude, each Legendre
+ * mode of the absorbed flux responds as T_n = F_n / (n(n+1)D + B). On a circular orbit with no
+ * obliquity the daily-mean insolation is S cos φ / π at every season (common practice), i.e.
+ * (S/π)√(1 − x²), whose Legendre coefficients are computed here by quadrature. The climate is then
+ * steady; A, B, D are North, Cahalan & Coakley's (1981, Rev. Geophys. 19, 91) values. Data from that
+ * formula (not from calorbit), σ = 0.1 K, are fitted for D (one band) and for B (the global mean).
+ */
+describe("zonal climate fit (North's linear model)", () => {
+  const OLR_A = 203.3;
+  const OLR_B = 2.09;
+  const D = 0.649;
+  const ALBEDO = 0.3;
+  const BANDS = 30;
+  const scenario = {
+    name: "North test (invented)",
+    star: { luminosity: "1 Lsun", mass: "1 Msun" },
+    orbit: { semiMajorAxis: "1 au", eccentricity: 0 },
+    body: { albedo: ALBEDO, emissivity: 1, heatCapacity: "1e7 J/m2/K" },
+    regime: "zonal",
+    spin: { obliquity: 0 },
+    climate: { bands: BANDS, diffusion: 1, outgoing: { law: "linear", a: OLR_A, b: 3 }, start: "warm", stepsPerOrbit: 48 },
+  };
+  const { thermal } = calorbit.resolveScenario(structuredClone(scenario));
+  const S = thermal.star.luminosityW / (4 * Math.PI * thermal.orbit.semiMajorAxisM ** 2);
+  const legendre = (n: number, x: number): number => {
+    let p0 = 1;
+    let p1 = x;
+    if (n === 0) return 1;
+    for (let k = 2; k <= n; k++) [p0, p1] = [p1, ((2 * k - 1) * x * p1 - (k - 1) * p0) / k];
+    return p1;
+  };
+  // F_n = (2n + 1)/2 ∫ (1 − A)(S/π)√(1 − x²) P_n(x) dx (midpoint rule, 4000 points; odd modes vanish), minus A for n = 0.
+  const MODES = 40;
+  const forcing: number[] = [];
+  for (let n = 0; n <= MODES; n += 2) {
+    let sum = 0;
+    for (let i = 0; i < 4000; i++) {
+      const x = -1 + (2 * i + 1) / 4000;
+      sum += ((1 - ALBEDO) * S * Math.sqrt(1 - x * x) * legendre(n, x) * 2) / (Math.PI * 4000);
+    }
+    forcing[n] = ((2 * n + 1) / 2) * sum - (n === 0 ? OLR_A : 0);
+  }
+  /** North's profile averaged over the band containing `latitudeDeg` (the model's bands are equal in x), K. */
+  const bandMeanK = (latitudeDeg: number): number => {
+    const j = Math.floor(((Math.sin((latitudeDeg * Math.PI) / 180) + 1) / 2) * BANDS);
+    const x0 = -1 + (2 * j) / BANDS;
+    let sum = 0;
+    for (let i = 0; i < 200; i++) {
+      const x = x0 + ((i + 0.5) * 2) / BANDS / 200;
+      for (let n = 0; n <= MODES; n += 2) sum += (forcing[n]! / (n * (n + 1) * D + OLR_B)) * legendre(n, x);
+    }
+    return sum / 200 + 273.15;
+  };
+  const fit = (free: string, output: string, valueK: number) => {
+    const n = 6;
+    const times = Float64Array.from({ length: n }, (_, i) => (i * thermal.orbit.periodSeconds) / n);
+    const obs = { ...observationsAt(times, new Float64Array(n).fill(0.1)), value: new Float64Array(n).fill(valueK) };
+    const parameters = [calorbit.parseFreeParameter(free, thermal.orbit.periodSeconds)];
+    const out = calorbit.parseModelOutput(output, () => null, (text) => (Number(text) * Math.PI) / 180);
+    const doc = { ...scenario, climate: { ...scenario.climate, ...(free.startsWith("climate.outgoing.b") ? { diffusion: D } : { outgoing: { law: "linear", a: OLR_A, b: OLR_B } }) } };
+    return calorbit.fitBest(new calorbit.ForwardModel({ scenario: doc, parameters, output: out, relativeTolerance: 1e-6, samples: 50 }, obs), parameters, { starts: 1 });
+  };
+
+  it("recovers the diffusion from one band's temperature and B from the global mean, within 1σ of 0.1 K data", () => {
+    const band = fit("climate.diffusion=0.1..10", "latitude=60", bandMeanK(60));
+    expect(Math.abs(band.values[0]! - D)).toBeLessThan(band.estimates[0]!.sigma!);
+    const globalMeanK = forcing[0]! / OLR_B + 273.15; // the n = 0 mode
+    const global = fit("climate.outgoing.b=1..4", "surface", globalMeanK);
+    expect(Math.abs(global.values[0]! - OLR_B)).toBeLessThan(global.estimates[0]!.sigma!);
+  });
+
+  it("refuses a zonal fit from two starts (two climates) before fitting", () => {
+    const parameters = [calorbit.parseFreeParameter("climate.diffusion=0.1..10", 1)];
+    const both = { ...scenario, climate: { ...scenario.climate, start: "both" } };
+    const output = calorbit.parseModelOutput("surface", () => null);
+    const thermalBoth = calorbit.resolveScenario(structuredClone(both)).thermal;
+    expect(problemOf(() => calorbit.checkModelOutput(output, thermalBoth))).toBe("climate.start: given both; allowed: warm or cold: the fit follows the climate reached from that start (two starts can reach two climates)");
+    expect(parameters[0]!.log).toBe(true);
+  });
+});

@@ -8,6 +8,7 @@ import { CalorbitError } from "../errors.js";
 import { resolveScenario } from "../scenario/resolve.js";
 import { simulate } from "../run/simulate.js";
 import { observeMap } from "../run/observeMap.js";
+import { simulateZonal, zonalCaseOf, zonalSeries } from "../run/zonal.js";
 import { setPath } from "../sweep/spec.js";
 import type { ThermalCase } from "../model/thermalCase.js";
 import { REGIME_TABLE } from "../model/regimes.js";
@@ -20,19 +21,32 @@ import { offsetSeconds, scenarioValue, TIME_OFFSET_KEY, type FreeParameter } fro
  *  - a state name ("day", "night" for the daynight regime);
  *  - "depth=<length>": a conduction column's temperature at that depth (e.g. "depth=0.3 m");
  *  - "fluxRatio": the map regime's planet-to-star flux ratio in the observer's passband
- *    (dimensionless; the planet's own emission, partly hidden during the occultation; no transit).
+ *    (dimensionless; the planet's own emission, partly hidden during the occultation; no transit);
+ *  - "latitude=<angle>": the zonal climate's band containing that latitude ("surface" there is the
+ *    area-weighted global mean).
  * The data's quantity (a temperature or a flux ratio) is checked against the output's.
  */
 export interface ModelOutput {
   spec: string;
-  kind: "surface" | "state" | "depth" | "fluxRatio";
+  kind: "surface" | "state" | "depth" | "fluxRatio" | "latitude";
   state?: string;
   depthM?: number;
+  latitudeRad?: number;
   quantity: ObservedQuantity;
 }
 
-export function parseModelOutput(spec: string, depthToMetres: (text: string) => number | null): ModelOutput {
+export function parseModelOutput(spec: string, depthToMetres: (text: string) => number | null, latitudeToRadians: (text: string) => number | null = () => null): ModelOutput {
   const s = spec.trim();
+  const latitude = /^latitude\s*=\s*(.+)$/.exec(s);
+  if (latitude) {
+    const rad = latitudeToRadians(latitude[1]!);
+    if (rad === null || !(Math.abs(rad) <= Math.PI / 2 + 1e-12)) {
+      throw new CalorbitError("USAGE", `--model-output: given ${JSON.stringify(spec)}`, [
+        { path: "--model-output", given: JSON.stringify(spec), allowed: 'latitude=<angle from −90° to 90°>, e.g. "latitude=45 deg" (bare numbers are degrees)' },
+      ]);
+    }
+    return { spec: s, kind: "latitude", latitudeRad: rad, quantity: "temperature" };
+  }
   if (s === "surface") return { spec: s, kind: "surface", quantity: "temperature" };
   if (s === FLUX_RATIO_OUTPUT) return { spec: s, kind: "fluxRatio", quantity: "fluxRatio" };
   const depth = /^depth\s*=\s*(.+)$/.exec(s);
@@ -47,7 +61,7 @@ export function parseModelOutput(spec: string, depthToMetres: (text: string) => 
   }
   if (/^[a-z]+$/.test(s)) return { spec: s, kind: "state", state: s, quantity: "temperature" };
   throw new CalorbitError("USAGE", `--model-output: given ${JSON.stringify(spec)}`, [
-    { path: "--model-output", given: JSON.stringify(spec), allowed: 'surface, day, night (daynight regime), depth=<length> (a column), e.g. "depth=0.3 m", or fluxRatio (map regime)' },
+    { path: "--model-output", given: JSON.stringify(spec), allowed: 'surface, day, night (daynight regime), depth=<length> (a column), e.g. "depth=0.3 m", fluxRatio (map regime) or latitude=<angle> (zonal)' },
   ]);
 }
 
@@ -98,7 +112,10 @@ export function modelCurve(settings: ForwardSettings, values: ArrayLike<number>)
   const thermal = caseFor(settings, values);
   const out = settings.output;
   checkModelOutput(out, thermal);
-  if (REGIME_TABLE[thermal.regime].pipeline === "map") return mapCurve(settings, thermal);
+  const pipeline = REGIME_TABLE[thermal.regime].pipeline;
+  if (pipeline === "map") return mapCurve(settings, thermal);
+  if (pipeline === "zonal") return zonalCurve(settings, thermal);
+  if (out.kind === "latitude") throw outputMismatch(out, "latitude=<angle> only for the zonal climate (regime: zonal)");
   if (thermal.column) {
     const col = simulate(thermal, { relativeTolerance: Math.max(settings.relativeTolerance, 1e-12), samples: settings.samples });
     if (out.kind === "state") throw outputMismatch(out, "surface or depth=<length> for a conduction column");
@@ -118,15 +135,19 @@ export function modelCurve(settings: ForwardSettings, values: ArrayLike<number>)
 
 /**
  * Refuses a model output the scenario cannot give, before any fit runs (the fit treats a case that
- * fails to solve as a wall, so these must be said first): the zonal climate, a map compared with
+ * fails to solve as a wall, so these must be said first): a zonal climate from two starts, a map compared with
  * anything but its flux ratio, a flux ratio from another regime, a map without its observer or
  * without a repeating cycle. (A map's missing radii are the scenario's to say: `telescopeOf`.)
  */
 export function checkModelOutput(out: ModelOutput, thermal: ThermalCase): void {
   if (REGIME_TABLE[thermal.regime].pipeline === "zonal") {
-    throw new CalorbitError("USAGE", "the zonal climate cannot be fitted yet", [
-      { path: "regime", given: "zonal", allowed: "global, dayside, substellar, daynight, band, point or map (a fit of the zonal climate is not built yet)" },
-    ]);
+    if (out.kind !== "surface" && out.kind !== "latitude") throw outputMismatch(out, "surface (the global mean) or latitude=<angle> (a band) for the zonal climate");
+    if (thermal.climate?.start === "both") {
+      throw new CalorbitError("USAGE", "a fit needs one climate", [
+        { path: "climate.start", given: "both", allowed: "warm or cold: the fit follows the climate reached from that start (two starts can reach two climates)" },
+      ]);
+    }
+    return;
   }
   if (REGIME_TABLE[thermal.regime].pipeline !== "map") {
     if (out.kind === "fluxRatio") throw outputMismatch(out, `surface, day, night or depth=<length>: fluxRatio needs regime: map with an observer (this scenario's regime is ${thermal.regime})`);
@@ -156,6 +177,34 @@ export function checkModelOutput(out: ModelOutput, thermal: ThermalCase): void {
       },
     ]);
   }
+}
+
+/**
+ * The zonal climate through its periodic orbit (from the one start the scenario names): the global
+ * (area-weighted) mean, or the band that contains the asked latitude.
+ */
+function zonalCurve(settings: ForwardSettings, thermal: ThermalCase): ModelCurve {
+  const out = settings.output;
+  const input = zonalCaseOf(thermal);
+  const sim = simulateZonal(input);
+  const series = zonalSeries(input, sim, sim.climates[0]!, settings.samples);
+  const { grid } = sim;
+  const n = grid.count;
+  const count = series.timeSeconds.length;
+  const value = new Float64Array(count);
+  if (out.kind === "latitude") {
+    const x = Math.sin(out.latitudeRad!);
+    let band = 0;
+    while (band < n - 1 && x > grid.edgeX[band + 1]!) band++;
+    for (let s = 0; s < count; s++) value[s] = series.temperatureK[s * n + band]!;
+  } else {
+    for (let s = 0; s < count; s++) {
+      let mean = 0;
+      for (let j = 0; j < n; j++) mean += grid.areaFraction[j]! * series.temperatureK[s * n + j]!;
+      value[s] = mean;
+    }
+  }
+  return { timeSeconds: series.timeSeconds, value, periodic: true };
 }
 
 /** The longest p:q cycle (in orbits) the map solves as a periodic state (src/run/simulateMap.ts). */

@@ -27,6 +27,7 @@ export const LOG_SCALE_KEYS: readonly string[] = [
   "body.column.profile.deepConductivity",
   "body.column.profile.eFoldingDepth",
   "body.exchangeCoefficient",
+  "climate.diffusion",
 ];
 
 /** Bounds used when `--free KEY` gives none (only for keys with a natural range). */
@@ -160,6 +161,7 @@ const KEY_SI_UNITS: Readonly<Record<string, string>> = {
   "body.column.conductivity": "W/m/K",
   "body.column.density": "kg/m3",
   "body.column.specificHeat": "J/kg/K",
+  "climate.diffusion": "W/m2/K",
   "orbit.semiMajorAxis": "m",
   "orbit.period": "s",
   "orbit.meanAnomalyAtStart": "rad",

@@ -14,7 +14,7 @@ export function registerFit(program: Command): void {
     .option("--data <file>", "observed series: CSV or JSON Lines (.jsonl) with time_s / time_d …, temperature_K (optional sigma_K) or flux_ratio (optional sigma)")
     .option("--free <KEY[=LOW..HIGH]>", "a free key with its bounds (units as in sweeps; 'log' or 'lin' after them); timeOffset shifts the data's clock; repeat", (v: string, acc: string[] = []) => [...acc, v])
     .option("--time-unit <unit>", "unit of a bare 'time' column (s, min, h, d, yr)")
-    .option("--model-output <what>", "model series compared with the data: surface, day, night, depth=<length> (a column), or fluxRatio (a map with an observer); default: surface for temperatures, fluxRatio for flux_ratio data")
+    .option("--model-output <what>", "model series compared with the data: surface, day, night, depth=<length> (a column), latitude=<angle> (a zonal band; surface = its global mean), or fluxRatio (a map with an observer); default: surface for temperatures, fluxRatio for flux_ratio data")
     .option("--starts <n>", "least-squares starts (the centre of the bounds, then seeded random points)", "4")
     .option("--seed <s>", "seed of the starts and the posterior", "1")
     .option("--tolerance <x>", "relative tolerance of each model run", "1e-7")

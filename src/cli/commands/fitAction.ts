@@ -104,10 +104,17 @@ export async function fitCommand(scenarioPath: string, flags: FitFlags): Promise
     source: flags.data,
     ...(flags.timeUnit !== undefined ? { timeUnit: flags.timeUnit } : {}),
   });
-  const output = parseModelOutput(flags.modelOutput ?? defaultModelOutput(observations.quantity), (text) => {
-    const q = parseQuantity("length", /^[+-]?[\d.]+([eE][+-]?\d+)?$/.test(text.trim()) ? Number(text) : text);
-    return q.ok ? q.valueSI : null;
-  });
+  const output = parseModelOutput(
+    flags.modelOutput ?? defaultModelOutput(observations.quantity),
+    (text) => {
+      const q = parseQuantity("length", /^[+-]?[\d.]+([eE][+-]?\d+)?$/.test(text.trim()) ? Number(text) : text);
+      return q.ok ? q.valueSI : null;
+    },
+    (text) => {
+      const q = parseQuantity("angle", text.trim()); // bare numbers are degrees, as in scenarios
+      return q.ok ? q.valueSI : null;
+    },
+  );
   const settings: ForwardSettings = { scenario, parameters, output, relativeTolerance: tolerance, samples };
   const forward = new ForwardModel(settings, observations);
   // Every key and both ends of its bounds must be something the scenario accepts: say so now, not as a failed fit.
