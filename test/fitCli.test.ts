@@ -111,6 +111,14 @@ describe("calorbit fit", () => {
     r = await calorbit("fit", scenario, "--data", fluxes, "--free", "body.albedo");
     expect(r.status).toBe(2);
     expect(r.stderr).toBe("calorbit: --model-output: given \"fluxRatio\"; allowed: surface, day, night or depth=<length>: fluxRatio needs regime: map with an observer (this scenario's regime is global)\n");
+    // The zonal climate: two starts may reach two climates, so the fit asks for one; with one it runs.
+    const zonal = (start: string) => write(`zonal-${start}.yaml`, `${SCENARIO}regime: zonal\nclimate: { bands: 6, stepsPerOrbit: 24, start: ${start} }\n`);
+    r = await calorbit("fit", zonal("both"), "--data", temperatures, "--free", "climate.diffusion=0.1..10");
+    expect(r.status).toBe(2);
+    expect(r.stderr).toBe("calorbit: climate.start: given both; allowed: warm or cold: the fit follows the climate reached from that start (two starts can reach two climates)\n");
+    r = await calorbit("fit", zonal("warm"), "--data", temperatures, "--free", "climate.diffusion=0.1..10", "--model-output", "latitude=30", "--starts", "1", "--json");
+    expect(r.status).toBe(0);
+    expect(JSON.parse(r.stdout).parameters[0].key).toBe("climate.diffusion");
   });
 
   it("fits a map's phase curve (flux_ratio data, the passband read from its file) back to the values that made it", async () => {

@@ -12,6 +12,7 @@ import { resolveScenario } from "../../scenario/resolve.js";
 import { parseQuantity } from "../../scenario/units.js";
 import { parsePassbandTable } from "../../scenario/passbandFile.js";
 import { buildThermalModel } from "../../model/build.js";
+import { REGIME_TABLE } from "../../model/regimes.js";
 import { fitBest } from "../../fit/bestFit.js";
 import { telescopeOf } from "../../run/observeMap.js";
 import { caseFor, checkModelOutput, defaultModelOutput, ForwardModel, parseModelOutput, type ForwardSettings } from "../../fit/forward.js";
@@ -89,8 +90,10 @@ export async function fitCommand(scenarioPath: string, flags: FitFlags): Promise
   const scenario = loadScenarioDocument(scenarioPath).document as Record<string, unknown>;
   inlinePassband(scenario, scenarioPath);
   const base = resolveScenario(structuredClone(scenario)).thermal;
-  // The map has its own cell-by-cell solve: its cycle is the spin's p:q (q orbits), the others' the model's.
-  const cycleOrbits = base.regime === "map" ? (base.spin?.ratio?.orbit ?? 1) : buildThermalModel(base).cycleOrbits;
+  // The map has its own cell-by-cell solve: its cycle is the spin's p:q (q orbits); the zonal climate's
+  // (daily-mean insolation) is one orbit; the single-surface regimes' is their model's.
+  const pipeline = REGIME_TABLE[base.regime].pipeline;
+  const cycleOrbits = pipeline === "map" ? (base.spin?.ratio?.orbit ?? 1) : pipeline === "zonal" ? 1 : buildThermalModel(base).cycleOrbits;
   const cycleSeconds = base.orbit.periodSeconds * cycleOrbits;
   const parameters = flags.free.map((a) => parseFreeParameter(a, cycleSeconds));
   const keys = new Set<string>();
@@ -129,7 +132,7 @@ export async function fitCommand(scenarioPath: string, flags: FitFlags): Promise
   // And the output must be one this scenario gives (a fit treats a case that fails as a wall, so say it now).
   const centreCase = caseFor(settings, centre);
   checkModelOutput(output, centreCase);
-  if (centreCase.regime === "map") telescopeOf(centreCase);
+  if (REGIME_TABLE[centreCase.regime].pipeline === "map") telescopeOf(centreCase);
   const fit = fitBest(forward, parameters, { starts, seed });
 
   let posterior: PosteriorSummary | undefined;
