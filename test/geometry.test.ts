@@ -117,6 +117,11 @@ describe("the day/night equilibrium's iteration cap", () => {
     const h = 3 * (out[0]! - out[1]!);
     expect(Math.abs(680 - STEFAN_BOLTZMANN * out[0]! ** 4 - h) / 680).toBeLessThan(1e-12);
     expect(Math.abs(h - STEFAN_BOLTZMANN * out[1]! ** 4) / 680).toBeLessThan(1e-12);
+    // Started from a nearby equilibrium (what the balance does between neighbouring calls), the same root.
+    const warm = new Float64Array(2);
+    exchangeEquilibrium(680, 0, STEFAN_BOLTZMANN, 1, 3, warm, undefined, [out[0]! * 1.01, out[1]! * 0.98]);
+    expect(Math.abs(warm[0]! / out[0]! - 1)).toBeLessThan(1e-13);
+    expect(Math.abs(warm[1]! / out[1]! - 1)).toBeLessThan(1e-13);
     // One step from the mixed start cannot meet the 1e-13 criterion: a typed error, not a silent guess.
     expect(() => exchangeEquilibrium(680, 0, STEFAN_BOLTZMANN, 1, 3, out, 1)).toThrowError(
       expect.objectContaining({ code: "EQUILIBRIUM_NO_CONVERGENCE", message: expect.stringMatching(/^the day\/night equilibrium with an exchange coefficient did not converge in 1 Newton steps/) }),

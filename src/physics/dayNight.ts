@@ -41,6 +41,8 @@ export class DayNightBalance implements OdeSystem {
   private readonly absorbedAtA: number;
   private readonly daysideFactor: number;
   private readonly lossFactor: number;
+  /** The last exchange-coefficient equilibrium found (0, 0 before the first): the next one's start. */
+  private readonly lastEquilibrium = new Float64Array(2);
 
   constructor(
     orbit: Orbit,
@@ -110,7 +112,10 @@ export class DayNightBalance implements OdeSystem {
     const nightInput = this.q + forced;
     const k = this.exchange.coefficientWPerM2K;
     if (k > 0) {
-      exchangeEquilibrium(dayInput, nightInput, this.emission, this.lossFactor, k, out);
+      // Successive calls come at nearby E (grids, extremum searches): start from the last answer.
+      exchangeEquilibrium(dayInput, nightInput, this.emission, this.lossFactor, k, out, EXCHANGE_EQUILIBRIUM_MAX_ITERATIONS, this.lastEquilibrium);
+      this.lastEquilibrium[0] = out[0]!;
+      this.lastEquilibrium[1] = out[1]!;
     } else {
       out[0] = equilibriumTemperatureFrom(dayInput, this.emission);
       out[1] = equilibriumTemperatureFrom(nightInput, this.emission);
@@ -126,7 +131,9 @@ export const EXCHANGE_EQUILIBRIUM_MAX_ITERATIONS = 60;
  * into `out` by Newton's method from the fully mixed state:
  *   P_d − εσT_d⁴ − L k (T_d − T_n) = 0,   P_n − εσT_n⁴ + k (T_d − T_n) = 0
  * with P_d, P_n the day and night inputs (W m⁻²), εσ the emission coefficient and L = 4 f_d − 1.
- * Throws EQUILIBRIUM_NO_CONVERGENCE, naming the balance and the last step, if the cap is reached.
+ * `start` (a nearby equilibrium, both temperatures > 0) replaces the mixed start: two or three
+ * steps instead of four to eight. Throws EQUILIBRIUM_NO_CONVERGENCE, naming the balance and the
+ * last step, if the cap is reached.
  */
 export function exchangeEquilibrium(
   dayInput: number,
@@ -136,19 +143,23 @@ export function exchangeEquilibrium(
   k: number,
   out: Float64Array,
   maxIterations = EXCHANGE_EQUILIBRIUM_MAX_ITERATIONS,
+  start?: ArrayLike<number>,
 ): void {
-  const shared = equilibriumTemperatureFrom((dayInput + lossFactor * nightInput) / (1 + lossFactor), emission);
-  let td = shared;
-  let tn = shared;
+  const warm = start !== undefined && start[0]! > 0 && start[1]! > 0;
+  const shared = warm ? 0 : equilibriumTemperatureFrom((dayInput + lossFactor * nightInput) / (1 + lossFactor), emission);
+  let td = warm ? start[0]! : shared;
+  let tn = warm ? start[1]! : shared;
   let dd = NaN;
   let dn = NaN;
   for (let i = 0; i < maxIterations; i++) {
-    const r0 = dayInput - emission * td ** 4 - lossFactor * k * (td - tn);
-    const r1 = nightInput - emission * tn ** 4 + k * (td - tn);
-    const a = -4 * emission * td ** 3 - lossFactor * k;
+    const td3 = td * td * td;
+    const tn3 = tn * tn * tn;
+    const r0 = dayInput - emission * td3 * td - lossFactor * k * (td - tn);
+    const r1 = nightInput - emission * tn3 * tn + k * (td - tn);
+    const a = -4 * emission * td3 - lossFactor * k;
     const b = lossFactor * k;
     const c = k;
-    const d = -4 * emission * tn ** 3 - k;
+    const d = -4 * emission * tn3 - k;
     const det = a * d - b * c;
     dd = (-r0 * d + r1 * b) / det;
     dn = (-r1 * a + r0 * c) / det;
