@@ -121,3 +121,27 @@ describe("two-body distance against an ephemeris", () => {
     });
   }
 });
+
+describe("output samples uniform in time (the series' Kepler solve)", () => {
+  it("solve M = E − e sin E at every sample to 1e-13 rad, with sin E and cos E to 1e-15 (Kepler's equation, common practice)", async () => {
+    const { anomaliesUniformInTime } = await import("../src/analysis/orbitSampling.js");
+    for (const e of [0, 0.3, 0.9, 0.995]) {
+      const orbit: Orbit = { semiMajorAxisM: ASTRONOMICAL_UNIT_M, eccentricity: e, periodSeconds: 3e7, meanAnomalyAtStartRad: 0 };
+      for (const [startE, orbits, count] of [[0, 1, 1000], [2.5, 3, 777], [-1, 1, 50]] as const) {
+        const trig = { sinE: new Float64Array(count), cosE: new Float64Array(count) };
+        const E = anomaliesUniformInTime(orbit, startE, orbits, count, trig);
+        const startM = startE - e * Math.sin(startE);
+        let worstKepler = 0;
+        let worstTrig = 0;
+        for (let j = 0; j < count; j++) {
+          const m = startM + (2 * Math.PI * orbits * j) / (count - 1);
+          const scale = Math.max(1, Math.abs(m));
+          worstKepler = Math.max(worstKepler, Math.abs(E[j]! - e * Math.sin(E[j]!) - m) / scale);
+          worstTrig = Math.max(worstTrig, Math.abs(trig.sinE[j]! - Math.sin(E[j]!)) / scale, Math.abs(trig.cosE[j]! - Math.cos(E[j]!)) / scale);
+        }
+        expect(worstKepler).toBeLessThan(1e-13);
+        expect(worstTrig).toBeLessThan(1e-15);
+      }
+    }
+  });
+});

@@ -12,23 +12,39 @@ const TWO_PI = 2 * Math.PI;
 /** Halley steps allowed to the warm-started Kepler solve before it hands the sample to the bracketed solver. */
 const MAX_WARM_STEPS = 12;
 
+/** sin E and cos E at each sample of an anomaly grid (filled by `anomaliesUniformInTime`, read by `orbitColumns`). */
+export interface AnomalyTrig {
+  sinE: Float64Array;
+  cosE: Float64Array;
+}
+
 /**
  * `count` eccentric anomalies at equal steps in time over `spanOrbits` orbits from `startE`, both
- * ends included. Each sample's Kepler solve starts from the previous sample's E, with
- * Halley steps from there (two per sample at 1000 samples per orbit); a sample that does not converge
- * at once (e near 1 at periastron) goes to the bracketed solver of physics/kepler.ts.
+ * ends included; with `trig`, their sines and cosines too (so that the orbit columns need no more).
+ * Each sample's Kepler solve starts from a second-order prediction off the previous sample
+ * (dE/dM = 1/(1 − e cos E), d²E/dM² = −e sin E/(1 − e cos E)³), so one Halley step usually
+ * lands within 1e-17 rad; a sample whose step is too large for that gets more steps, and one that
+ * does not converge (e near 1 at periastron) goes to the bracketed solver of physics/kepler.ts.
  */
-export function anomaliesUniformInTime(orbit: Orbit, startE: number, spanOrbits: number, count: number): Float64Array {
+export function anomaliesUniformInTime(orbit: Orbit, startE: number, spanOrbits: number, count: number, trig?: AnomalyTrig): Float64Array {
   const e = orbit.eccentricity;
   const spanSeconds = spanOrbits * orbit.periodSeconds;
   const n = meanMotion(orbit);
   const startM = startE - e * Math.sin(startE);
   const out = new Float64Array(count);
   let E = startE;
+  let sinE = Math.sin(startE);
+  let cosE = Math.cos(startE);
+  let previousM = startM;
   for (let j = 0; j < count; j++) {
     // The last sample is the exact end, whatever rounding the Kepler solve would add.
     if (j === count - 1) {
-      out[j] = startE + TWO_PI * spanOrbits;
+      E = startE + TWO_PI * spanOrbits;
+      out[j] = E;
+      if (trig) {
+        trig.sinE[j] = Math.sin(E);
+        trig.cosE[j] = Math.cos(E);
+      }
       break;
     }
     const m = startM + n * ((spanSeconds * j) / (count - 1));
@@ -36,23 +52,47 @@ export function anomaliesUniformInTime(orbit: Orbit, startE: number, spanOrbits:
     // precision (near periastron of an e → 1 orbit f' = 1 − e cos E is tiny and amplifies rounding).
     const offset = TWO_PI * Math.round(m / TWO_PI);
     const mReduced = m - offset;
-    let reduced = E - offset;
+    const dM = m - previousM;
+    const w0 = 1 - e * cosE;
+    let reduced = E - offset + dM / w0 - (0.5 * dM * dM * e * sinE) / (w0 * w0 * w0);
     let converged = false;
+    let s = 0;
+    let c = 1;
+    let step = 0;
     for (let iteration = 0; iteration < MAX_WARM_STEPS; iteration++) {
-      // Halley's step (cubic convergence; f'' = e sin E comes with f): a step of 1e-7 leaves ~1e-21.
-      const sinE = Math.sin(reduced);
-      const f = reduced - e * sinE - mReduced;
-      const fPrime = 1 - e * Math.cos(reduced);
-      const step = f / (fPrime - (0.5 * f * e * sinE) / fPrime);
+      // Halley's step (cubic convergence; f'' = e sin E comes with f).
+      s = Math.sin(reduced);
+      c = Math.cos(reduced);
+      const f = reduced - e * s - mReduced;
+      const fPrime = 1 - e * c;
+      step = f / (fPrime - (0.5 * f * e * s) / fPrime);
       reduced -= step;
       if (!Number.isFinite(reduced)) break;
-      if (Math.abs(step) <= 1e-7) {
+      // The error left is about K·step³ with K ≤ (e/f')(1 + e/f') (Halley's error constant).
+      const k = e / fPrime;
+      const cube = step * step * step;
+      if (Math.abs(cube) * k * (1 + k) <= 1e-17 && Math.abs(step) <= 1e-5) {
         converged = true;
         break;
       }
     }
-    E = converged ? offset + reduced : eccentricAnomaly(m, e);
+    if (converged) {
+      E = offset + reduced;
+      // sin and cos at the corrected E from those before the last step (Taylor to step³: below 2e-16).
+      const step2 = 0.5 * step * step;
+      sinE = s * (1 - step2) - c * step;
+      cosE = c * (1 - step2) + s * step;
+    } else {
+      E = eccentricAnomaly(m, e);
+      sinE = Math.sin(E);
+      cosE = Math.cos(E);
+    }
+    previousM = m;
     out[j] = E;
+    if (trig) {
+      trig.sinE[j] = sinE;
+      trig.cosE[j] = cosE;
+    }
   }
   return out;
 }
@@ -66,8 +106,11 @@ export interface OrbitColumns {
   stellarFluxWPerM2: Float64Array;
 }
 
-/** Time, anomalies, distance and stellar flux at the given eccentric anomalies (one sin/cos pair per sample). */
-export function orbitColumns(orbit: Orbit, luminosityW: number, anomalies: Float64Array): OrbitColumns {
+/**
+ * Time, anomalies, distance and stellar flux at the given eccentric anomalies (one sin/cos pair per
+ * sample, or none when `trig` holds them already).
+ */
+export function orbitColumns(orbit: Orbit, luminosityW: number, anomalies: Float64Array, trig?: AnomalyTrig): OrbitColumns {
   const count = anomalies.length;
   const columns: OrbitColumns = {
     timeSeconds: new Float64Array(count),
@@ -82,8 +125,8 @@ export function orbitColumns(orbit: Orbit, luminosityW: number, anomalies: Float
   const t0 = count > 0 ? timeAtEccentric(orbit, anomalies[0]!) : 0;
   for (let j = 0; j < count; j++) {
     const E = anomalies[j]!;
-    const sinE = Math.sin(E);
-    const cosE = Math.cos(E);
+    const sinE = trig ? trig.sinE[j]! : Math.sin(E);
+    const cosE = trig ? trig.cosE[j]! : Math.cos(E);
     const m = E - e * sinE;
     const r = orbit.semiMajorAxisM * (1 - e * cosE);
     columns.timeSeconds[j] = (m - orbit.meanAnomalyAtStartRad) / n - t0;

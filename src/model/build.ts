@@ -42,6 +42,11 @@ interface ModelCommon {
   absorbedAt(E: number, state: number): number;
   /** Instantaneous equilibrium of every cell at E, K, into `out`. */
   equilibriumAt(E: number, out: Float64Array): void;
+  /**
+   * A cell's instantaneous equilibrium from its own absorbed stellar flux (W m⁻² → K), when that is
+   * all it depends on (cells that exchange no heat); null otherwise (then use `equilibriumAt`).
+   */
+  equilibriumOfAbsorbed: ((absorbedWPerM2: number) => number) | null;
   /** εσ, W m⁻² K⁻⁴. */
   emissionCoefficient: number;
   internalFluxWPerM2: number;
@@ -143,6 +148,7 @@ export function buildThermalModel(thermal: ThermalCase, regime?: RegimeEntry): T
     equilibriumAt: (E, out) => {
       for (let i = 0; i < cells.length; i++) out[i] = teqOf(cells[i]!.forcing.absorbedAt(E));
     },
+    equilibriumOfAbsorbed: teqOf,
     emissionCoefficient: emission,
     internalFluxWPerM2: q,
     meanAbsorbedWPerM2: meanAbsorbedOf(surface),
@@ -182,6 +188,7 @@ export function buildThermalModel(thermal: ThermalCase, regime?: RegimeEntry): T
           const balance = new DayNightBalance(orbit, properties, thermal.star.luminosityW, exchange);
           system = balance;
           common.equilibriumAt = (E, out) => balance.equilibrium(E, out);
+          common.equilibriumOfAbsorbed = null;
           // No recirculation and no exchange coefficient: the hemispheres do not touch, and each
           // is solved on its own (an unheated night side stays at 0 K, the published limit).
           if (!exchangeCarriesHeat(exchange)) independentCells = cells.map((cell) => new LumpedBalance(orbit, properties, cell.forcing));

@@ -4,6 +4,7 @@
  * time), and the solver report. `simulate` turns it into the one summary and the one series.
  */
 import type { DepthRow } from "../analysis/summarise.js";
+import type { AnomalyTrig } from "../analysis/orbitSampling.js";
 import type { IntegratorName } from "../solve/periodic.js";
 import type { PeriodicMethod } from "../solve/periodicKrylov.js";
 
@@ -62,6 +63,8 @@ export interface ConvergedCycle {
   /** Output grid (uniform in time) and the states there. */
   outputE: Float64Array;
   outputY: Float64Array;
+  /** sin E and cos E on the output grid, when the solve has them (the orbit columns then need no more). */
+  outputTrig?: AnomalyTrig;
   /** Time of the first output sample since the run's start, s (seasonal and transient runs: after the spin-up). */
   outputStartSeconds: number;
   solver: SolverReport;

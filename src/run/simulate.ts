@@ -5,7 +5,7 @@
  * Pure computation: no I/O.
  */
 import { cycleSummary, type CycleSummary } from "../analysis/summarise.js";
-import { orbitColumns } from "../analysis/orbitSampling.js";
+import { orbitColumns, type AnomalyTrig } from "../analysis/orbitSampling.js";
 import { CalorbitError, describeValue, requireNumber, requireObject } from "../errors.js";
 import { buildThermalModel, type ThermalModel } from "../model/build.js";
 import { REGIMES, type ThermalCase } from "../model/thermalCase.js";
@@ -141,7 +141,7 @@ function finish(thermal: ThermalCase, model: ThermalModel, cycle: ConvergedCycle
     ...(cycle.column ? { budget: cycle.column.energy } : {}),
     ...(thermal.windowK ? { windowK: thermal.windowK } : {}),
   });
-  const series = buildSeries(thermal, model, cycle.outputE, cycle.outputY);
+  const series = buildSeries(thermal, model, cycle.outputE, cycle.outputY, cycle.outputTrig);
   if (cycle.outputStartSeconds !== 0) for (let j = 0; j < series.timeSeconds.length; j++) series.timeSeconds[j]! += cycle.outputStartSeconds;
   if (cycle.seasonal) summary.seasonal = cycle.seasonal;
   const simulation: Simulation = { case: thermal, summary, series, solver: cycle.solver };
@@ -157,7 +157,7 @@ function finish(thermal: ThermalCase, model: ThermalModel, cycle: ConvergedCycle
   return simulation;
 }
 
-function buildSeries(thermal: ThermalCase, model: ThermalModel, outputE: Float64Array, outputY: Float64Array): Series {
+function buildSeries(thermal: ThermalCase, model: ThermalModel, outputE: Float64Array, outputY: Float64Array, trig?: AnomalyTrig): Series {
   const count = outputE.length;
   const n = model.stateNames.length;
   const { orbit } = thermal;
@@ -168,20 +168,23 @@ function buildSeries(thermal: ThermalCase, model: ThermalModel, outputE: Float64
     absorbedWPerM2: new Float64Array(count),
   }));
   const series: Series = {
-    ...orbitColumns(orbit, thermal.star.luminosityW, outputE),
+    ...orbitColumns(orbit, thermal.star.luminosityW, outputE, trig),
     absorbedWPerM2: states[0]!.absorbedWPerM2,
     temperatureK: states[0]!.temperatureK,
     equilibriumK: states[0]!.equilibriumK,
     states,
   };
   const eq = new Float64Array(n);
+  // Each cell's forcing once per sample: its equilibrium follows from its absorbed flux when the cells do not exchange heat.
+  const ofAbsorbed = model.equilibriumOfAbsorbed;
   for (let j = 0; j < count; j++) {
     const E = outputE[j]!;
-    model.equilibriumAt(E, eq);
+    if (!ofAbsorbed) model.equilibriumAt(E, eq);
     for (let i = 0; i < n; i++) {
+      const absorbed = model.absorbedAt(E, i);
       states[i]!.temperatureK[j] = outputY[j * n + i]!;
-      states[i]!.equilibriumK[j] = eq[i]!;
-      states[i]!.absorbedWPerM2[j] = model.absorbedAt(E, i);
+      states[i]!.equilibriumK[j] = ofAbsorbed ? ofAbsorbed(absorbed) : eq[i]!;
+      states[i]!.absorbedWPerM2[j] = absorbed;
     }
   }
   return series;

@@ -4,7 +4,7 @@
  * The dense output fills the output grid (uniform in time) and the statistics grid (uniform in E).
  */
 import { timeMean } from "../analysis/cycleStatistics.js";
-import { anomaliesUniformInTime } from "../analysis/orbitSampling.js";
+import { anomaliesUniformInTime, type AnomalyTrig } from "../analysis/orbitSampling.js";
 import { CalorbitError } from "../errors.js";
 import type { SlabModel } from "../model/build.js";
 import { exchangeCarriesHeat } from "../model/exchange.js";
@@ -242,7 +242,7 @@ function converged(model: SlabModel, grids: Grids, solver: SolverReport, outputS
     model.system.derivative(grids.statsE[k]!, y, dy);
     for (let i = 0; i < n; i++) statsDerivative[k * n + i] = dy[i]!;
   }
-  return { statsE: grids.statsE, statsY, statsDerivative, outputE: grids.outputE, outputY, outputStartSeconds, solver };
+  return { statsE: grids.statsE, statsY, statsDerivative, outputE: grids.outputE, outputY, outputTrig: grids.outputTrig, outputStartSeconds, solver };
 }
 
 function report(
@@ -353,6 +353,7 @@ function guessStart(model: SlabModel, thermal: ThermalCase): Float64Array {
 
 interface Grids {
   outputE: Float64Array;
+  outputTrig: AnomalyTrig;
   statsE: Float64Array;
   dense: { xs: Float64Array; ys: Float64Array; components: number };
   /** Splits the dense output back into the two grids. */
@@ -373,7 +374,8 @@ function makeGrids(
   statsPointsPerOrbit: number,
   n: number,
 ): Grids {
-  const outputE = anomaliesUniformInTime(orbit, startE, spanOrbits, sampleCount);
+  const outputTrig = { sinE: new Float64Array(sampleCount), cosE: new Float64Array(sampleCount) };
+  const outputE = anomaliesUniformInTime(orbit, startE, spanOrbits, sampleCount, outputTrig);
   const statsCount = statsPointsPerOrbit * summaryOrbits + 1;
   const statsStart = startE + TWO_PI * (spanOrbits - summaryOrbits);
   const statsE = new Float64Array(statsCount);
@@ -396,6 +398,7 @@ function makeGrids(
   const dense = { xs, ys: new Float64Array(total * n), components: n };
   return {
     outputE,
+    outputTrig,
     statsE,
     dense,
     scatter() {
