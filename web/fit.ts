@@ -27,6 +27,9 @@ function errorBarsPlugin(time: readonly number[], value: readonly number[], erro
         (u: uPlot) => {
           const ctx = u.ctx;
           ctx.save();
+          ctx.beginPath();
+          ctx.rect(u.bbox.left, u.bbox.top, u.bbox.width, u.bbox.height);
+          ctx.clip();
           ctx.strokeStyle = CHART_COLOURS.grey;
           ctx.lineWidth = devicePixelRatio;
           const cap = 3 * devicePixelRatio;
@@ -48,6 +51,15 @@ function errorBarsPlugin(time: readonly number[], value: readonly number[], erro
       ],
     },
   };
+}
+
+/** A y range holding every value and bar (and `least` on both sides of 0, when given), padded by 5 %. */
+function spanOf(lows: readonly number[], highs: readonly number[], least = 0): uPlot.Range.MinMax {
+  let lo = Math.min(...lows, -least);
+  let hi = Math.max(...highs, least);
+  if (!(hi > lo)) [lo, hi] = [lo - 1, hi + 1];
+  const pad = 0.05 * (hi - lo);
+  return [lo - pad, hi + pad];
 }
 
 const pointsOnly = { paths: () => null, points: { show: true, size: 6, fill: CHART_COLOURS.grey, stroke: CHART_COLOURS.grey } };
@@ -157,12 +169,13 @@ export function startFit(doc: FitViewDocument): void {
   const series = aligned(doc, scale);
   const observed = doc.data.observed.map((v) => v * scale);
   const sigma = doc.data.sigma.map((s) => s * scale);
+  const curveValues = doc.curve.value.map((v) => v * scale);
   new uPlot(
     {
       width,
       height: 340,
       title: `Data ± 1σ${doc.sigmaEstimated ? " (σ from the residual scatter)" : ""} and the best fit`,
-      scales: { x: { time: false } },
+      scales: { x: { time: false }, y: { range: () => spanOf([...observed.map((v, i) => v - sigma[i]!), ...curveValues], [...observed.map((v, i) => v + sigma[i]!), ...curveValues]) } },
       axes: [{ label: `time (${doc.timeUnit}, the data's clock)` }, { label: flux ? "flux ratio (ppm)" : "temperature (K)" }],
       series: [
         { label: `time (${doc.timeUnit})` },
@@ -183,7 +196,7 @@ export function startFit(doc: FitViewDocument): void {
       width,
       height: 200,
       title: "Residuals (data − model) / σ",
-      scales: { x: { time: false } },
+      scales: { x: { time: false }, y: { range: () => spanOf(normalised.map((r) => r - 1), normalised.map((r) => r + 1), 3) } },
       axes: [{ label: `time (${doc.timeUnit})` }, { label: "residual / σ" }],
       series: [{ label: `time (${doc.timeUnit})` }, { label: "residual / σ", stroke: CHART_COLOURS.grey, ...pointsOnly }],
       plugins: [

@@ -49,7 +49,7 @@ export function fitText(input: FitReportInput): string {
   }
   lines.push(`  χ² = ${sig(fit.chiSquare, 5)} for ${fit.degreesOfFreedom} degrees of freedom (reduced χ² = ${sig(fit.reducedChiSquare, 4)})`);
   const rms = Math.sqrt(fit.residual.reduce((a, r) => a + r * r, 0) / fit.residual.length);
-  lines.push(`  rms residual ${sig(rms, 3)} ${observations.quantity === "temperature" ? "K" : ""}; ${fit.starts} starts, ${fit.evaluations} model runs`);
+  lines.push(`  rms residual ${sig(rms, 3)}${observations.quantity === "temperature" ? " K" : " (flux ratio)"}; ${fit.starts} starts, ${fit.evaluations} model runs`);
   if (fit.correlation && fit.estimates.length > 1) {
     lines.push("  correlations:");
     const p = fit.estimates.length;
