@@ -469,6 +469,19 @@ describe("physical sanity: impossible geometry refused, doubtful results warned 
     expect(JSON.parse((await calorbit("run", "--json", "--samples", "20")).stdout).warnings).toEqual([]);
   });
 
+  it("keeps a stiff result's extremes inside the equilibrium range (P = 1e6 yr, C = 1 J m-2 K-1: τ/P ≈ 1e-14)", async () => {
+    // A slab with τ ≪ P follows its equilibrium, so min Teq ≤ T ≤ max Teq (energy balance, common
+    // practice). The refined extremes used to leave it by hundreds of kelvin (a minimum of −1665 K).
+    const text = validScenario.replace("eccentricity: 0.2 }", "eccentricity: 0.2, period: 1e6 yr }").replace("heatCapacity: 1e8 J/m2/K", "heatCapacity: 1 J/m2/K");
+    const r = await calorbit("run", scenarioFile("stiff-long.yaml", text), "--json");
+    expect(r.status).toBe(0);
+    const doc = JSON.parse(r.stdout);
+    const { temperature: t, equilibrium: eq } = doc.summary;
+    expect(t.maxK).toBeLessThanOrEqual(eq.maxK * (1 + 1e-9));
+    expect(t.minK).toBeGreaterThanOrEqual(eq.minK * (1 - 1e-9));
+    expect(doc.warnings).toEqual([]);
+  });
+
   it("warns that a bare-number luminosity is watts, in a scenario and in equilibrium (and suggests Lsun)", async () => {
     const r = await calorbit("run", scenarioFile("one-watt.yaml", validScenario.replace("luminosity: 1 Lsun", "luminosity: 1")), "--json", "--samples", "20");
     expect(r.status).toBe(0);

@@ -40,6 +40,48 @@ describe("cycle statistics against closed forms", () => {
     expect(ratio).toBeLessThan(40);
   });
 
+  it("keeps refined extremes and window times inside what the samples allow when the derivatives are wrong (a stiff balance's)", () => {
+    // y = cos(E − c): max 1 at E = c, min −1 at c + π, and cos E ≥ 0.5 for 2π/3 of the cycle (closed
+    // forms). The samples are exact; the derivatives carry an error of ±1e6, as dT/dt = (F − εσT⁴)/C
+    // does when τ ≪ P. The cubic through those slopes went to ±1e4 between samples.
+    const count = 200;
+    const c = 0.123;
+    const xs = grid(count);
+    const ys = Float64Array.from(xs, (E) => Math.cos(E - c));
+    const ds = Float64Array.from(xs, (E, k) => -Math.sin(E - c) + (k % 3 === 0 ? 1e6 : k % 3 === 1 ? -7e5 : 3e5));
+    ds[count] = ds[0]!; // a cycle: the last sample is the first
+    const h = (2 * Math.PI) / count;
+    const max = hermiteExtremum(xs, ys, ds, 1);
+    const min = hermiteExtremum(xs, ys, ds, -1);
+    // Never beyond the true extreme by more than the three-point slopes' O(h³) error, never short of the best sample.
+    expect(max.value).toBeLessThanOrEqual(1 + h ** 3);
+    expect(max.value).toBeGreaterThanOrEqual(Math.max(...ys));
+    expect(min.value).toBeGreaterThanOrEqual(-1 - h ** 3);
+    expect(min.value).toBeLessThanOrEqual(Math.min(...ys));
+    expect(Math.abs(max.x - c)).toBeLessThan(h);
+    const window = timeInWindow(xs, ys, ds, 0.5, 2, (E) => E);
+    expect(Math.abs(window - (2 * Math.PI) / 3)).toBeLessThan(1e-4);
+  });
+
+  it("does not overshoot a corner: a triangle wave's refined peak stays at or below the corner", () => {
+    // y = 1 − |E − c| near c (a corner, as a surface tracking a forcing with a sunrise does), exact
+    // one-sided derivatives ±1. Its maximum is 1 at E = c and its minimum 1 − π at c + π (closed form).
+    const count = 64;
+    const h = (2 * Math.PI) / count;
+    for (const offset of [0.05, 0.2, 0.5, 0.8]) {
+      const c = (10 + offset) * h;
+      const distance = (E: number) => Math.abs(positiveModulo(E - c + Math.PI, 2 * Math.PI) - Math.PI);
+      const xs = grid(count);
+      const ys = Float64Array.from(xs, (E) => 1 - distance(E));
+      const ds = Float64Array.from(xs, (E) => (positiveModulo(E - c, 2 * Math.PI) < Math.PI ? -1 : 1));
+      const max = hermiteExtremum(xs, ys, ds, 1);
+      expect(max.value).toBeLessThanOrEqual(1 + 1e-12);
+      expect(max.value).toBeGreaterThanOrEqual(Math.max(...ys));
+      const min = hermiteExtremum(xs, ys, ds, -1);
+      expect(min.value).toBeGreaterThanOrEqual(1 - Math.PI - 1e-12);
+    }
+  });
+
   it("finds the extremum of an explicit function between samples (golden section)", () => {
     const f = (E: number) => 2 - (E - 1.2345) ** 2;
     const xs = grid(16);
