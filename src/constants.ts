@@ -84,3 +84,10 @@ export const SPIEGEL_COLD_ICE_K = 263;
 export const NORTH_DIFFUSION_W_PER_M2K = 0.649;
 /** Albedo of ice in North's model: co-albedo 0.38. North, Cahalan & Coakley 1981. */
 export const NORTH_ICE_ALBEDO = 1 - 0.38;
+
+/**
+ * The smallest areal heat capacity a scenario may give, J m⁻² K⁻¹: below any real surface's (one
+ * sheet of graphene, 0.77 mg m⁻² at about 700 J kg⁻¹ K⁻¹, holds about 5e-4 J m⁻² K⁻¹; from memory).
+ * A validation floor, not a property of matter.
+ */
+export const MIN_AREAL_HEAT_CAPACITY_J_PER_M2K = 1e-4;

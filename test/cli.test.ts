@@ -446,6 +446,31 @@ describe("physical sanity: impossible geometry refused, doubtful results warned 
     expect(r.stderr).toBe('calorbit: orbit.semiMajorAxis: given "0.004 au"; allowed: an orbit whose periastron a(1 − e) clears the star\'s radius 6.957e+8 m (here a(1 − e) = 4.787e+8 m)\n');
   });
 
+  it("names the user's own field for physics no run can give: albedo 1, a place never lit, c(T) ≤ 0, C below any surface's", async () => {
+    const body = "body: { albedo: 0.3, emissivity: 0.9, heatCapacity: 1e8 J/m2/K }";
+    const cases: [string, string, RegExp][] = [
+      // (1 − A) S = 0 at A = 1: nothing absorbed, no steady temperature (common practice).
+      ["albedo-one", validScenario.replace("albedo: 0.3", "albedo: 1"), /^calorbit: body\.albedo: given 1; allowed: an albedo below 1 /],
+      // cos z = sin φ sin δ + cos φ cos δ cos H is 0 at φ = 90° when δ = 0 (obliquity 0): the star on the horizon (common practice).
+      ["pole-band", validScenario.replace(/thresholds.*\n/, "regime: band\nsurface: { latitude: 90 }\n"), /^calorbit: surface\.latitude: given 90; allowed: a latitude the star rises over \(with spin\.obliquity 0 /],
+      // A synchronous (1:1) circular orbit keeps longitude 180° in night (common practice).
+      ["far-side", validScenario.replace("eccentricity: 0.2", "eccentricity: 0").replace(/thresholds.*\n/, "regime: point\nsurface: { longitude: 180 }\n"), /^calorbit: surface\.longitude: given 180; allowed: a longitude the star rises over/],
+      // c(T) = 800 − 10 T J/kg/K is 0 at 80 K, inside this orbit's 41–413 K (arithmetic).
+      ["negative-c", validScenario.replace(body, "body: { albedo: 0.3, emissivity: 0.9, column: { thermalInertia: 50, specificHeatPolynomial: [800, -10] } }"), /^calorbit: body\.column\.specificHeatPolynomial: given \[800,-10\]; allowed: coefficients whose c\(T\) stays above 0 J kg⁻¹ K⁻¹ from \d+ K to \d+ K, the temperatures this orbit can give \(here c\(8\d K\) = -/],
+      ["tiny-C", validScenario.replace("heatCapacity: 1e8 J/m2/K", "heatCapacity: 1e-30"), /^calorbit: body\.heatCapacity: given 1e-30; allowed: an areal heat capacity of at least 1e-4 J\/m2\/K/],
+    ];
+    for (const [name, text, line] of cases) {
+      const out = join(dir, `${name}.csv`);
+      const r = await calorbit("run", scenarioFile(`${name}.yaml`, text), "--csv", out);
+      expect({ name, status: r.status, lines: r.stderr.trim().split("\n").length }).toEqual({ name, status: 2, lines: 1 });
+      expect(r.stderr).toMatch(line);
+      expect(existsSync(out)).toBe(false);
+    }
+    // Internal heat warms a place the star never reaches, so the same pole is a valid case with it.
+    const heated = validScenario.replace(/thresholds.*\n/, "regime: band\nsurface: { latitude: 90 }\n").replace("heatCapacity: 1e8 J/m2/K", "heatCapacity: 1e8 J/m2/K, internalFlux: 0.1");
+    expect((await calorbit("check", scenarioFile("pole-heated.yaml", heated))).status).toBe(0);
+  });
+
   it("warns when the temperature exceeds the star's own, on stderr and in the JSON warnings, never in stdout's data", async () => {
     // A grey surface (ε = 0.05, absorbing all) at 2.15 solar radii from a 5772 K star: the substellar
     // equilibrium T★ (R/r)^½ ((1 − A)/ε)^¼ ≈ 8300 K is above T★, which Kirchhoff's law forbids for a real surface.

@@ -12,6 +12,7 @@ import { luminosityFromRadiusTemperature, massParameter } from "../physics/star.
 import { resolveClimate } from "./climate.js";
 import { parseRatio, scenarioSchema, type ParsedScenario } from "./schema.js";
 import { bareLuminosityWarning } from "../analysis/sanity.js";
+import { physicalProblems } from "./physical.js";
 
 /** How the heat capacity was obtained, kept for the report. */
 export type HeatCapacityOrigin =
@@ -253,6 +254,10 @@ function fromParsed(s: ParsedScenario, raw: unknown): ResolvedScenario {
     obliquityRad: s.spin?.obliquity ?? 0,
     equinoxTrueAnomalyRad: s.spin?.axisLongitude ?? 0,
   };
+  // Physics no run can give (nothing absorbed, a place never lit, c(T) ≤ 0, C below any surface's), by field.
+  const heatCapacityPath = column !== undefined ? undefined : s.body.heatCapacity !== undefined ? "body.heatCapacity" : s.body.layer !== undefined ? "body.layer.thickness" : undefined;
+  const physical = physicalProblems(thermal, (path) => render(valueAt(raw, path.split("."))), heatCapacityPath);
+  if (physical.length > 0) throw new CalorbitError("SCENARIO_INVALID", "the scenario asks for what no run can give", physical);
   const rawLuminosity = valueAt(raw, ["star", "luminosity"]);
   const bareLuminosity = typeof rawLuminosity === "number" || (typeof rawLuminosity === "string" && /^\s*[+-]?[\d.]+([eE][+-]?\d+)?\s*$/.test(rawLuminosity));
   const luminosityWarning = bareLuminosity ? bareLuminosityWarning("star.luminosity", luminosityW) : undefined;

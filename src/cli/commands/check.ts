@@ -12,6 +12,18 @@ async function checkCommand(scenarioPath: string): Promise<void> {
   ]);
   const { resolved, file } = loadScenario(scenarioPath);
   const { thermal } = resolved;
+  if (thermal.map !== undefined && thermal.regime === "map") {
+    // The map regime solves cell by cell (src/run/simulateMap.ts): no single-surface model to describe.
+    const { longitudes, latitudes } = thermal.map;
+    out(
+      [
+        `${file}: valid scenario "${thermal.name}"`,
+        ...describeScenario(resolved),
+        `  derived   period ${duration(thermal.orbit.periodSeconds)} (${sig(thermal.orbit.periodSeconds, 6)} s); map of ${longitudes} × ${latitudes} cells, each solved alone`,
+      ].join("\n") + "\n",
+    );
+    return;
+  }
   const model = buildThermalModel(thermal);
   const lines = [
     `${file}: valid scenario "${thermal.name}"`,
