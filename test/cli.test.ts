@@ -452,9 +452,9 @@ describe("physical sanity: impossible geometry refused, doubtful results warned 
       // (1 − A) S = 0 at A = 1: nothing absorbed, no steady temperature (common practice).
       ["albedo-one", validScenario.replace("albedo: 0.3", "albedo: 1"), /^calorbit: body\.albedo: given 1; allowed: an albedo below 1 /],
       // cos z = sin φ sin δ + cos φ cos δ cos H is 0 at φ = 90° when δ = 0 (obliquity 0): the star on the horizon (common practice).
-      ["pole-band", validScenario.replace(/thresholds.*\n/, "regime: band\nsurface: { latitude: 90 }\n"), /^calorbit: surface\.latitude: given 90; allowed: a latitude the star rises over \(with spin\.obliquity 0 /],
+      ["pole-band", validScenario.replace(/thresholds.*\n/, "regime: band\nsurface: { latitude: 90 }\n"), /^calorbit: surface\.latitude: given 90 deg; allowed: a latitude the star rises over \(with spin\.obliquity 0 /],
       // A synchronous (1:1) circular orbit keeps longitude 180° in night (common practice).
-      ["far-side", validScenario.replace("eccentricity: 0.2", "eccentricity: 0").replace(/thresholds.*\n/, "regime: point\nsurface: { longitude: 180 }\n"), /^calorbit: surface\.longitude: given 180; allowed: a longitude the star rises over/],
+      ["far-side", validScenario.replace("eccentricity: 0.2", "eccentricity: 0").replace(/thresholds.*\n/, "regime: point\nsurface: { longitude: 180 }\n"), /^calorbit: surface\.longitude: given 180 deg; allowed: a longitude the star rises over/],
       // c(T) = 800 − 10 T J/kg/K is 0 at 80 K, inside this orbit's 41–413 K (arithmetic).
       ["negative-c", validScenario.replace(body, "body: { albedo: 0.3, emissivity: 0.9, column: { thermalInertia: 50, specificHeatPolynomial: [800, -10] } }"), /^calorbit: body\.column\.specificHeatPolynomial: given \[800,-10\]; allowed: coefficients whose c\(T\) stays above 0 J kg⁻¹ K⁻¹ from \d+ K to \d+ K, the temperatures this orbit can give \(here c\(8\d K\) = -/],
       ["tiny-C", validScenario.replace("heatCapacity: 1e8 J/m2/K", "heatCapacity: 1e-30"), /^calorbit: body\.heatCapacity: given 1e-30; allowed: an areal heat capacity of at least 1e-4 J\/m2\/K/],

@@ -15,6 +15,8 @@ import { columnCycle, columnToleranceFor, DEFAULT_COLUMN_TOLERANCE } from "./col
 import type { ColumnCycleExtras, ConvergedCycle, CycleRequest, SolverReport } from "./cycle.js";
 import { isDark, slabCycle } from "./slabCycle.js";
 import { PERIODIC_METHODS, type PeriodicMethod } from "../solve/periodicKrylov.js";
+import { checkWorkload, explainStepLimit } from "./workload.js";
+import { darknessProblems } from "../scenario/physical.js";
 
 export { DEFAULT_RELATIVE_TOLERANCE, DEFAULT_SAMPLES, INTEGRATORS, type IntegratorName, type SolverReport, columnToleranceFor, DEFAULT_COLUMN_TOLERANCE };
 
@@ -111,14 +113,21 @@ export function simulate(thermal: ThermalCase, options: SimulateOptions = {}): S
     ...(options.transient ? { transient: options.transient } : {}),
     ...(options.periodicMethod ? { periodicMethod: options.periodicMethod } : {}),
   };
+  checkWorkload(thermal, model, options.transient !== undefined);
+  const dark = options.transient ? [] : darknessProblems(thermal);
+  if (dark.length > 0) throw new CalorbitError("SCENARIO_INVALID", "the surface absorbs nothing over the cycle", dark);
   let cycle: ConvergedCycle;
-  switch (model.kind) {
-    case "slab":
-      cycle = slabCycle(thermal, model, request);
-      break;
-    case "column":
-      cycle = columnCycle(thermal, model, request);
-      break;
+  try {
+    switch (model.kind) {
+      case "slab":
+        cycle = slabCycle(thermal, model, request);
+        break;
+      case "column":
+        cycle = columnCycle(thermal, model, request);
+        break;
+    }
+  } catch (error) {
+    throw explainStepLimit(error, thermal, model, rtol);
   }
   return finish(thermal, model, cycle);
 }

@@ -1,10 +1,10 @@
 /**
- * Physics a scenario asks for that no run can give, caught at validation and named by the user's own
- * field: a surface that absorbs nothing (albedo 1, no internal heat), a place the star never reaches,
- * a c(T) that is not positive at the temperatures the orbit gives, a heat capacity below any real
- * surface's. Each is one FieldProblem (field, given value, what is allowed), so the CLI prints one
- * line and exits 2 instead of letting a solver fail later with a message about its own internals.
- * Pure: no I/O.
+ * Physics a scenario asks for that no run can give, named by the user's own field: a c(T) that is
+ * not positive at the temperatures the orbit gives, a heat capacity below any real surface's (both
+ * at validation); a surface that absorbs nothing (albedo 1, no internal heat) or a place the star
+ * never reaches (both before a case runs). Each is one FieldProblem (field, given value, what is
+ * allowed), so the CLI prints one line and exits 2 instead of letting a solver fail later with a
+ * message about its own internals. Pure: no I/O.
  */
 import { MIN_AREAL_HEAT_CAPACITY_J_PER_M2K, STEFAN_BOLTZMANN } from "../constants.js";
 import type { FieldProblem } from "../errors.js";
@@ -37,15 +37,6 @@ export function hottestEquilibriumK(thermal: ThermalCase): number {
 export function physicalProblems(thermal: ThermalCase, given: GivenAt, heatCapacityPath: string | undefined): FieldProblem[] {
   const problems: FieldProblem[] = [];
   const { surface } = thermal;
-  const heated = surface.internalFluxWPerM2 > 0;
-  if (surface.albedo >= 1 && !heated && thermal.climate === undefined) {
-    problems.push({
-      path: "body.albedo",
-      given: given("body.albedo"),
-      allowed: "an albedo below 1 (at 1 the surface reflects all starlight, absorbs nothing and cools toward 0 K, so it has no steady temperature), or body.internalFlux above 0",
-    });
-    return problems;
-  }
   const capacity = surface.heatCapacityJPerM2K;
   if (heatCapacityPath !== undefined && capacity !== undefined && capacity < MIN_AREAL_HEAT_CAPACITY_J_PER_M2K) {
     problems.push({
@@ -61,11 +52,30 @@ export function physicalProblems(thermal: ThermalCase, given: GivenAt, heatCapac
   } else if (polynomial !== undefined && !(polynomial[0]! > 0)) {
     problems.push({ path: "body.column.specificHeatPolynomial", given: given("body.column.specificHeatPolynomial"), allowed: "a specific heat c(T) above 0 J kg⁻¹ K⁻¹" });
   }
-  if (!heated && (thermal.regime === "band" || thermal.regime === "point")) {
-    const problem = darkPlaceProblem(thermal, given);
-    if (problem) problems.push(problem);
-  }
   return problems;
+}
+
+/**
+ * A case whose surface never absorbs anything: albedo 1 without internal heat, or a band or point
+ * the star never reaches. Checked when a case is about to run rather than when a scenario is read,
+ * so that a sweep or a fit may take albedo 1 or a pole as the end of its range (that case alone
+ * fails, as its row or evaluation) while a single run is refused in one line before any solve.
+ */
+export function darknessProblems(thermal: ThermalCase): FieldProblem[] {
+  const { surface } = thermal;
+  if (surface.internalFluxWPerM2 > 0 || thermal.climate !== undefined) return [];
+  if (surface.albedo >= 1) {
+    return [
+      {
+        path: "body.albedo",
+        given: String(surface.albedo),
+        allowed: "an albedo below 1 (at 1 the surface reflects all starlight, absorbs nothing and cools toward 0 K, so it has no steady temperature), or body.internalFlux above 0",
+      },
+    ];
+  }
+  if (thermal.regime !== "band" && thermal.regime !== "point") return [];
+  const problem = darkPlaceProblem(thermal);
+  return problem ? [problem] : [];
 }
 
 /** c(T) = Σ aᵢ Tⁱ must be positive wherever the surface can be: from a tenth of the hottest equilibrium up to it. */
@@ -90,7 +100,7 @@ function specificHeatProblem(polynomial: readonly number[], hottestK: number, gi
 }
 
 /** A band or point that the star never reaches over the whole cycle, named by the field to change. */
-function darkPlaceProblem(thermal: ThermalCase, given: GivenAt): FieldProblem | undefined {
+function darkPlaceProblem(thermal: ThermalCase): FieldProblem | undefined {
   const entry = REGIME_TABLE[thermal.regime];
   const cell = entry.surface(thermal).cells[0]!;
   const reference = (1 - thermal.surface.albedo) * stellarFlux(thermal.star.luminosityW, thermal.orbit.semiMajorAxisM);
@@ -102,13 +112,18 @@ function darkPlaceProblem(thermal: ThermalCase, given: GivenAt): FieldProblem | 
     const upright = Math.min(obliquity, Math.PI - obliquity) < 1e-9;
     return {
       path: "surface.latitude",
-      given: given("surface.latitude"),
+      given: degrees(latitude),
       allowed: `a latitude the star rises over${upright ? " (with spin.obliquity 0 a pole has the star on its horizon all year: move off the pole, or tilt the axis)" : ""}, or body.internalFlux above 0`,
     };
   }
   return {
     path: "surface.longitude",
-    given: given("surface.longitude"),
+    given: degrees(thermal.location?.longitudeRad ?? 0),
     allowed: "a longitude the star rises over during the cycle (this spin keeps the place in night, as on a locked body's far side: move it toward longitude 0, or give spin.period or spin.orbitRatio a rate that turns it to the star), or body.internalFlux above 0",
   };
+}
+
+/** An angle as the scenario's bare degrees (rounded to 1e-9 of a degree). */
+function degrees(rad: number): string {
+  return `${Number(((rad * 180) / Math.PI).toFixed(9))} deg`;
 }

@@ -3,12 +3,14 @@ import type { Command } from "commander";
 import { out } from "../output.js";
 
 async function checkCommand(scenarioPath: string): Promise<void> {
-  const [{ specificHeatAt }, { duration, sig }, { describeScenario }, { buildThermalModel }, { loadScenario }] = await Promise.all([
+  const [{ specificHeatAt }, { duration, sig }, { describeScenario }, { buildThermalModel }, { loadScenario }, { darknessProblems }, { CalorbitError }] = await Promise.all([
     import("../../physics/column.js"),
     import("../../report/format.js"),
     import("../../report/text.js"),
     import("../../model/build.js"),
     import("../io.js"),
+    import("../../scenario/physical.js"),
+    import("../../errors.js"),
   ]);
   const { resolved, file } = loadScenario(scenarioPath);
   const { thermal } = resolved;
@@ -24,6 +26,8 @@ async function checkCommand(scenarioPath: string): Promise<void> {
     );
     return;
   }
+  const dark = darknessProblems(thermal);
+  if (dark.length > 0) throw new CalorbitError("SCENARIO_INVALID", "the surface absorbs nothing over the cycle", dark);
   const model = buildThermalModel(thermal);
   const lines = [
     `${file}: valid scenario "${thermal.name}"`,

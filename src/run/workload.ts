@@ -1,0 +1,59 @@
+/**
+ * What a run will cost, said before it starts or when it stops: a cycle too long to hold is refused
+ * up front by the field that makes it long, and a solver's step limit is explained by what to
+ * change (which field or flag, in which direction). Pure: no I/O.
+ */
+import { CalorbitError, describeValue, type FieldProblem } from "../errors.js";
+import type { ThermalModel } from "../model/build.js";
+import type { ThermalCase } from "../model/thermalCase.js";
+
+/**
+ * Statistics points (uniform in E) one periodic slab cycle may hold: the state and its sensitivity
+ * are kept at each, so this bounds the memory (a 1:1000 spin's 1000-orbit cycle is 2.0 million
+ * points and about 0.3 GB; measured). The seasonal run's beat has the same budget (slabCycle.ts).
+ */
+export const MAX_CYCLE_STATISTICS_POINTS = 1 << 22;
+
+/** A tolerance above which loosening it further is no advice. */
+const LOOSEST_ADVISED_TOLERANCE = 1e-5;
+/** Solar days per orbit from which a fast spin is named as the cost of a point's run. */
+const MANY_SOLAR_DAYS = 50;
+
+/** Refuses a periodic slab cycle whose statistics grid would not fit, naming the spin field that sets its length. */
+export function checkWorkload(thermal: ThermalCase, model: ThermalModel, transient: boolean): void {
+  if (model.kind !== "slab" || transient || !model.commensurate) return;
+  const points = model.cycleOrbits * model.statsPointsPerOrbit;
+  if (points <= MAX_CYCLE_STATISTICS_POINTS) return;
+  const ratio = thermal.spin?.ratio;
+  const path = ratio ? "spin.orbitRatio" : "spin.period";
+  const given = ratio ? describeValue(`${ratio.spin}:${ratio.orbit}`) : `${thermal.spin?.rateRadPerSecond ? ((2 * Math.PI) / thermal.spin.rateRadPerSecond).toPrecision(6) : "?"} s`;
+  const maxOrbits = Math.floor(MAX_CYCLE_STATISTICS_POINTS / model.statsPointsPerOrbit);
+  const problem: FieldProblem = {
+    path,
+    given,
+    allowed: `a spin whose cycle repeats within ${maxOrbits} orbits (this one repeats after ${model.cycleOrbits} orbits, ${(points / 1e6).toFixed(1)} million statistics points against the ${(MAX_CYCLE_STATISTICS_POINTS / 1e6).toFixed(1)} million a run holds): a ratio p:q with a smaller q, or a spin.period that is not a ratio (its seasonal run summarises a shorter beat)`,
+  };
+  throw new CalorbitError("SCENARIO_INVALID", "the cycle is too long to hold", [problem]);
+}
+
+/**
+ * A solver's step-limit error, reworded to say what to change; any other error unchanged. The
+ * advice follows the case: a looser tolerance when it is tight, a slower spin (or the band regime's
+ * daily mean) when a point sees many sunrises per orbit, a shorter cycle when it spans many orbits.
+ */
+export function explainStepLimit(error: unknown, thermal: ThermalCase, model: ThermalModel, relativeTolerance: number): unknown {
+  if (!(error instanceof CalorbitError) || error.code !== "INTEGRATION_FAILED" || !/exceeded \d+ steps/.test(error.message)) return error;
+  const advice: string[] = [];
+  if (relativeTolerance < LOOSEST_ADVISED_TOLERANCE) {
+    advice.push(`loosen the tolerance (--tolerance, now ${relativeTolerance}: 1e-6 needs far fewer steps)`);
+  }
+  const solarDaysPerOrbit = model.solarDaySeconds ? thermal.orbit.periodSeconds / model.solarDaySeconds : 0;
+  if (solarDaysPerOrbit >= MANY_SOLAR_DAYS) {
+    advice.push(`slow the spin (spin.period: ${solarDaysPerOrbit.toFixed(0)} solar days per orbit, each a sunrise and a sunset to step through), or take regime band for a fast rotator's daily mean`);
+  }
+  if (model.cycleOrbits > 16) {
+    advice.push(`shorten the cycle (spin.orbitRatio p:q with a smaller q: this one repeats after ${model.cycleOrbits} orbits)`);
+  }
+  if (advice.length === 0) advice.push("loosen the tolerance (--tolerance) or raise body.heatCapacity, either of which smooths the history the solver steps through");
+  return new CalorbitError("INTEGRATION_FAILED", `${error.message}; to finish: ${advice.join("; or ")}`);
+}

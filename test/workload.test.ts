@@ -1,0 +1,56 @@
+import { describe, expect, it } from "vitest";
+import { CalorbitError } from "../src/errors.js";
+import { buildThermalModel } from "../src/model/build.js";
+import { simulate } from "../src/run/simulate.js";
+import { explainStepLimit, MAX_CYCLE_STATISTICS_POINTS } from "../src/run/workload.js";
+import { resolveScenario } from "../src/scenario/resolve.js";
+
+const point = (spin: Record<string, unknown>, heatCapacity = 1e6) =>
+  resolveScenario({
+    name: "workload",
+    star: { luminosity: "1 Lsun", mass: "1 Msun" },
+    orbit: { semiMajorAxis: "1 au", eccentricity: 0.2 },
+    body: { albedo: 0.3, emissivity: 0.9, heatCapacity },
+    regime: "point",
+    surface: { latitude: 20 },
+    spin,
+  }).thermal;
+
+describe("long runs: refused up front by the field that makes them long, step limits explained", () => {
+  it("refuses a p:q spin whose q-orbit cycle would not fit, naming spin.orbitRatio, before integrating anything", () => {
+    // A p:q resonance repeats after q orbits (p rotations in q orbits: common practice), so 1:3000 is a 3000-orbit cycle.
+    const thermal = point({ orbitRatio: "1:3000" });
+    const model = buildThermalModel(thermal);
+    expect(model.cycleOrbits).toBe(3000);
+    expect(model.cycleOrbits * model.statsPointsPerOrbit).toBeGreaterThan(MAX_CYCLE_STATISTICS_POINTS);
+    let caught: unknown;
+    try {
+      simulate(thermal);
+    } catch (error) {
+      caught = error;
+    }
+    expect(caught).toBeInstanceOf(CalorbitError);
+    const e = caught as CalorbitError;
+    expect(e.code).toBe("SCENARIO_INVALID");
+    expect(e.problems).toHaveLength(1);
+    expect(e.problems[0]!.path).toBe("spin.orbitRatio");
+    expect(e.problems[0]!.given).toBe('"1:3000"');
+    expect(e.problems[0]!.allowed).toMatch(/^a spin whose cycle repeats within \d+ orbits \(this one repeats after 3000 orbits/);
+  });
+
+  it("words a step limit as what to change: the tolerance, and for a point with many sunrises per orbit the spin", () => {
+    // A sidereal day of 1 d on a 365.26 d prograde orbit gives 365.26 − 1 ≈ 364 solar days per orbit (common practice).
+    const thermal = point({ period: "1 d", obliquity: 20 }, 1e4);
+    const model = buildThermalModel(thermal);
+    const limit = new CalorbitError("INTEGRATION_FAILED", "the explicit solver exceeded 200000 steps without reaching the end of the cycle");
+    const explained = explainStepLimit(limit, thermal, model, 1e-8) as CalorbitError;
+    expect(explained.code).toBe("INTEGRATION_FAILED");
+    expect(explained.message).toMatch(/^the explicit solver exceeded 200000 steps without reaching the end of the cycle; to finish: loosen the tolerance \(--tolerance, now 1e-8: /);
+    expect(explained.message).toContain("slow the spin (spin.period: 364 solar days per orbit");
+    // At a loose tolerance and a slow spin there is only the general advice; other errors pass unchanged.
+    const slow = point({ orbitRatio: "1:1" });
+    expect((explainStepLimit(limit, slow, buildThermalModel(slow), 1e-4) as CalorbitError).message).toMatch(/; to finish: loosen the tolerance \(--tolerance\) or raise body\.heatCapacity/);
+    const other = new CalorbitError("INTEGRATION_FAILED", "the temperature left the physical range (T ≤ 0 K)");
+    expect(explainStepLimit(other, thermal, model, 1e-8)).toBe(other);
+  });
+});
