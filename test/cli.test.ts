@@ -517,6 +517,18 @@ describe("physical sanity: impossible geometry refused, doubtful results warned 
     expect((await calorbit("equilibrium", "--luminosity", "3.828e26", "--distance", "1au")).stderr).toBe("");
   });
 
+  it("warns of a bare-number luminosity on the zonal and map paths too, on stderr and in their JSON", async () => {
+    const warning = 'star.luminosity: 1e+20 was read as 1e+20 W, far below any star\'s (the faintest are about 1e-5 Lsun); for solar units write "1e+20 Lsun"';
+    const zonalText = readFileSync(join(SCENARIOS, "vaelor-zonal.yaml"), "utf8").replace(/luminosity: [^\n#]*/, "luminosity: 1e20 ");
+    const map = "name: map warn\nstar: { luminosity: 1e20, mass: 1 Msun }\norbit: { semiMajorAxis: 0.001 au, eccentricity: 0.1 }\nbody: { albedo: 0.3, emissivity: 0.9, heatCapacity: 1e5 }\nregime: map\nmap: { longitudes: 8, latitudes: 4 }\n";
+    for (const [name, text] of [["zonal-watts.yaml", zonalText], ["map-watts.yaml", map]] as const) {
+      const r = await calorbit("run", scenarioFile(name, text), "--json");
+      expect({ name, status: r.status }).toEqual({ name, status: 0 });
+      expect(JSON.parse(r.stdout).warnings).toEqual([warning]);
+      expect(r.stderr).toBe(`calorbit: warning: ${warning}\n`);
+    }
+  });
+
   it("warns that daily means do not describe a slow or resonant rotator (3:2), and not for a fast one", async () => {
     const resonant = await calorbit("insolation", join(SCENARIOS, "miradel-resonant.yaml"));
     expect(resonant.status).toBe(0);
@@ -547,6 +559,20 @@ describe("users' habits", () => {
     const both = await calorbit("run", "--celsius", "--json");
     expect(both.status).toBe(2);
     expect(both.stderr).toMatch(/^calorbit: --celsius: given with --json; allowed: --celsius only with the text report/);
+  });
+
+  it("writes sweep lags in days (lag_days), the run's lagSeconds over 86400 s (the day, SI brochure)", async () => {
+    const path = scenarioFile("lag-days.yaml", validScenario);
+    const run = JSON.parse((await calorbit("run", path, "--json")).stdout);
+    const out = join(dir, "lag-days.csv");
+    const r = await calorbit("sweep", path, "--vary", "body.albedo=0.3", "--workers", "1", "--quiet", "--out", out);
+    expect({ status: r.status, stderr: r.stderr }).toEqual({ status: 0, stderr: "" });
+    const [header, row] = readFileSync(out, "utf8").trim().split("\n").filter((l) => !l.startsWith("#"));
+    const columns = header!.split(",");
+    expect(columns).not.toContain("lag_s");
+    const lagDays = Number(row!.split(",")[columns.indexOf("lag_days")]);
+    expect(run.summary.lagSeconds).toBeGreaterThan(86400); // a seasonal lag of days: the case the unit is for
+    expect(lagDays).toBeCloseTo(run.summary.lagSeconds / 86400, 9);
   });
 
   it("reads bare angles as degrees in scenario files and sweep axes (--vary surface.latitude=0,30,60)", async () => {

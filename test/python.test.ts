@@ -9,8 +9,10 @@ import { join } from "node:path";
 import { describe, expect, it } from "vitest";
 import { calorbit } from "./cliHarness.js";
 
-const hasPandas = spawnSync("python3", ["-c", "import pandas"], { encoding: "utf8" }).status === 0;
-if (!hasPandas) console.warn("test/python.test.ts: skipped: python3 with pandas is not installed (apt-get install python3-pandas to run it)");
+// The python3 on PATH (a pyenv or venv one may lack pandas), else Debian's, where python3-pandas installs.
+const python = ["python3", "/usr/bin/python3"].find((exe) => spawnSync(exe, ["-c", "import pandas"], { encoding: "utf8" }).status === 0);
+const hasPandas = python !== undefined;
+if (!hasPandas) console.warn("test/python.test.ts: skipped: no python3 with pandas (apt-get install python3-pandas to run it)");
 
 /** The first ```python block under the README's Python heading. */
 function readmePython(): string {
@@ -28,15 +30,19 @@ describe("the README's Python recipe", () => {
     const json = await calorbit("run", "--json", "--series", "--samples", "200");
     expect(json.status).toBe(0);
     writeFileSync(join(dir, "result.json"), json.stdout);
-    const r = spawnSync("python3", ["-c", readmePython()], { cwd: dir, encoding: "utf8" });
+    const sweep = await calorbit("sweep", join(import.meta.dirname, "..", "scenarios", "calyndra-ocean.yaml"), "--vary", "body.albedo=0.31", "--workers", "1", "--quiet", "--out", join(dir, "grid.csv"));
+    expect(sweep.status).toBe(0);
+    const r = spawnSync(python!, ["-c", readmePython()], { cwd: dir, encoding: "utf8" });
     expect(r.stderr).toBe("");
     expect(r.status).toBe(0);
-    const [csvMax, summaryMax, seriesMax] = r.stdout.trim().split(/\s+/).map(Number);
+    const [csvMax, summaryMax, seriesMax, sweepMax] = r.stdout.trim().split(/\s+/).map(Number);
     const doc = JSON.parse(json.stdout);
     // The sampled maximum is at most the refined one, and both files carry the same series.
     expect(summaryMax).toBe(doc.summary.temperature.maxK);
     expect(seriesMax).toBe(Math.max(...doc.series.temperatureK));
     expect(csvMax).toBeCloseTo(seriesMax!, 6);
     expect(seriesMax).toBeLessThanOrEqual(summaryMax!);
+    // The sweep's one case is the demo itself (albedo 0.31 as in the file): its row carries the run's maximum.
+    expect(sweepMax).toBeCloseTo(summaryMax!, 9);
   });
 });

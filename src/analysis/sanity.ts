@@ -21,7 +21,9 @@ export function starTemperatureK(star: ThermalCase["star"]): number | undefined 
 /** A luminosity given as a bare number (read as watts) that no star has: the usual slip for "1 Lsun". */
 export function bareLuminosityWarning(field: string, luminosityW: number): string | undefined {
   if (!(luminosityW < FAINTEST_STAR_LSUN * SOLAR_LUMINOSITY_W)) return undefined;
-  return `${field}: ${luminosityW} was read as ${luminosityW} W, far below any star's (the faintest are about 1e-5 Lsun); for solar units write "${luminosityW} Lsun"`;
+  // 1e20, not 100000000000000000000: a long number is shown as a person writes it.
+  const shown = Math.abs(luminosityW) >= 1e6 ? luminosityW.toExponential() : String(luminosityW);
+  return `${field}: ${shown} was read as ${shown} W, far below any star's (the faintest are about 1e-5 Lsun); for solar units write "${shown} Lsun"`;
 }
 
 interface TemperatureRange {

@@ -3,6 +3,7 @@
  * simulated, reduced to one output row. A case that fails (a bad value, a solver failure) becomes
  * a row with status "error: <reason>"; it never stops the sweep.
  */
+import { DAY_S } from "../constants.js";
 import { CalorbitError, formatProblem } from "../errors.js";
 import { resolveScenario } from "../scenario/resolve.js";
 import { columnToleranceFor, DEFAULT_RELATIVE_TOLERANCE, simulate } from "../run/simulate.js";
@@ -38,7 +39,7 @@ export const METRIC_COLUMNS = [
   "equilibrium_min_K",
   "equilibrium_max_K",
   "equilibrium_mean_K",
-  "lag_s",
+  "lag_days",
   "damping_ratio",
   "tau_over_period",
   "period_s",
@@ -62,7 +63,7 @@ export const METRIC_COLUMNS = [
   "climates",
   "flux_ratio_max",
   "flux_ratio_min",
-  "flux_max_after_periastron_s",
+  "flux_max_after_periastron_days",
   "transit_depth",
   "occultation_depth",
 ] as const;
@@ -191,7 +192,7 @@ function metricsOf(thermal: ThermalCase, relativeTolerance: number): Metrics {
     equilibrium_min_K: s.equilibrium.minK,
     equilibrium_max_K: s.equilibrium.maxK,
     equilibrium_mean_K: s.equilibrium.meanK,
-    lag_s: s.lagSeconds,
+    lag_days: s.lagSeconds === null ? null : s.lagSeconds / DAY_S,
     damping_ratio: s.dampingRatio,
     tau_over_period: s.tauOverPeriod,
     period_s: s.periodSeconds,
@@ -213,7 +214,7 @@ function metricsOf(thermal: ThermalCase, relativeTolerance: number): Metrics {
 const NO_MAP = {
   flux_ratio_max: null,
   flux_ratio_min: null,
-  flux_max_after_periastron_s: null,
+  flux_max_after_periastron_days: null,
   transit_depth: null,
   occultation_depth: null,
 };
@@ -242,7 +243,7 @@ function mapMetrics(thermal: ThermalCase, relativeTolerance: number): Metrics {
     equilibrium_min_K: null,
     equilibrium_max_K: null,
     equilibrium_mean_K: null,
-    lag_s: null,
+    lag_days: null,
     damping_ratio: null,
     tau_over_period: sim.radiativeTimeSeconds / thermal.orbit.periodSeconds,
     period_s: thermal.orbit.periodSeconds,
@@ -258,7 +259,7 @@ function mapMetrics(thermal: ThermalCase, relativeTolerance: number): Metrics {
     ...NO_CLIMATE,
     flux_ratio_max: o.phase?.maxFluxRatio ?? null,
     flux_ratio_min: o.phase?.minFluxRatio ?? null,
-    flux_max_after_periastron_s: o.phase?.timeOfMaxAfterPeriastronSeconds ?? null,
+    flux_max_after_periastron_days: o.phase ? o.phase.timeOfMaxAfterPeriastronSeconds / DAY_S : null,
     transit_depth: o.transit ? (o.transit.occurs ? o.transit.depth : 0) : null,
     occultation_depth: o.occultation ? (o.occultation.occurs ? o.occultation.depth : 0) : null,
   };
@@ -293,7 +294,7 @@ function zonalMetrics(thermal: ThermalCase): Metrics {
     equilibrium_min_K: null,
     equilibrium_max_K: null,
     equilibrium_mean_K: null,
-    lag_s: null,
+    lag_days: null,
     damping_ratio: null,
     tau_over_period: null,
     period_s: s.periodSeconds,

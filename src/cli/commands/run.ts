@@ -62,7 +62,7 @@ async function runCommand(scenarioPath: string | undefined, flags: RunFlags): Pr
   };
   switch (REGIME_TABLE[resolved.thermal.regime].pipeline) {
     case "zonal":
-      return runZonal(resolved, flags, options, writeFileAtomic);
+      return runZonal(resolved, flags, options, writeFileAtomic, () => report([]));
     case "map": {
       if (options.transient) throw usage("--from", JSON.stringify(flags.from ?? ""), "no transient mode for the map regime (it runs to its periodic state)");
       if (integrator) throw usage("--integrator", JSON.stringify(flags.integrator), "the map regime chooses its integrator per cell");
@@ -100,7 +100,13 @@ async function runCommand(scenarioPath: string | undefined, flags: RunFlags): Pr
 }
 
 /** The zonal climate: its own solver and writers (one or two climates). */
-async function runZonal(resolved: ResolvedScenario, flags: RunFlags, options: SimulateOptions, writeFileAtomic: (path: string, text: string) => void): Promise<void> {
+async function runZonal(
+  resolved: ResolvedScenario,
+  flags: RunFlags,
+  options: SimulateOptions,
+  writeFileAtomic: (path: string, text: string) => void,
+  reportWarnings: () => void,
+): Promise<void> {
   if (options.transient) throw usage("--from", JSON.stringify(flags.from ?? ""), "no transient mode for the zonal climate (it runs to its periodic climates from a warm and/or a cold start)");
   if (options.integrator) throw usage("--integrator", JSON.stringify(flags.integrator), "none for the zonal climate (it has its own implicit stepper)");
   const [{ simulateZonal, zonalCaseOf }, { zonalCsv, zonalDocument, zonalProfileSvg, zonalText }] = await Promise.all([
@@ -113,8 +119,9 @@ async function runZonal(resolved: ResolvedScenario, flags: RunFlags, options: Si
   const samples = options.samples ?? DEFAULT_SAMPLES;
   if (flags.csv !== undefined) writeFileAtomic(flags.csv, zonalCsv(resolved, zonal, sim, samples));
   if (flags.svg !== undefined) writeFileAtomic(flags.svg, zonalProfileSvg(resolved.thermal.name, sim));
+  reportWarnings();
   if (flags.json) {
-    out(JSON.stringify(zonalDocument(resolved, sim, climate), null, 2) + "\n");
+    out(JSON.stringify({ ...zonalDocument(resolved, sim, climate), warnings: resolved.warnings ?? [] }, null, 2) + "\n");
     return;
   }
   out(zonalText(resolved, sim, climate));

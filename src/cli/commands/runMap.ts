@@ -10,7 +10,7 @@ import type { ResolvedScenario } from "../../scenario/resolve.js";
 import { mapText } from "../../report/mapReport.js";
 import { quantityFlag } from "../flags.js";
 import { writeFileAtomic } from "../io.js";
-import { out } from "../output.js";
+import { out, warn } from "../output.js";
 
 export interface MapRunFlags {
   json?: boolean;
@@ -51,8 +51,11 @@ export function runMap(resolved: ResolvedScenario, scenarioFile: string, flags: 
   if (flags.mapCsv !== undefined) outputs.push([flags.mapCsv, mapSnapshotCsv(resolved, observed, sample)]);
   if (flags.svg !== undefined) outputs.push([flags.svg, mapSvg(resolved, observed, sample)]);
   for (const [path, content] of outputs) writeFileAtomic(path, content);
+  // Warnings (a bare-number luminosity) on stderr, never in the data; the JSON result lists them too.
+  const warnings = resolved.warnings ?? [];
+  for (const w of warnings) warn(w);
   if (flags.json) {
-    out(JSON.stringify(mapDocument(resolved, observed, flags.series === true), null, 2) + "\n");
+    out(JSON.stringify({ ...mapDocument(resolved, observed, flags.series === true), warnings }, null, 2) + "\n");
     return;
   }
   out(mapText(resolved, observed));
