@@ -1,5 +1,5 @@
 import { spawn, spawnSync } from "node:child_process";
-import { existsSync, mkdtempSync, readFileSync, writeFileSync } from "node:fs";
+import { existsSync, mkdtempSync, readdirSync, readFileSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { beforeAll, describe, expect, it } from "vitest";
@@ -116,6 +116,14 @@ describe("calorbit check, schema, equilibrium", async () => {
     expect(r.stdout).toContain("valid scenario");
     expect(r.stdout).toContain("Kepler's third law");
     expect(r.stdout).toMatch(/τ\/P = [\d.]+/);
+  });
+
+  it("check accepts every bundled scenario, the map and zonal ones included (they have no single-surface model)", async () => {
+    for (const name of readdirSync(SCENARIOS).filter((f) => f.endsWith(".yaml"))) {
+      const r = await calorbit("check", join(SCENARIOS, name));
+      expect({ name, status: r.status, stderr: r.stderr }).toEqual({ name, status: 0, stderr: "" });
+      expect(r.stdout).toMatch(/^ {2}derived {3}period /m);
+    }
   });
 
   it("schema prints a JSON Schema that names the scenario keys", async () => {

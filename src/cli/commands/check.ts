@@ -3,7 +3,7 @@ import type { Command } from "commander";
 import { out } from "../output.js";
 
 async function checkCommand(scenarioPath: string): Promise<void> {
-  const [{ specificHeatAt }, { duration, sig }, { describeScenario }, { buildThermalModel }, { loadScenario }, { darknessProblems }, { CalorbitError }] = await Promise.all([
+  const [{ specificHeatAt }, { duration, sig }, { describeScenario }, { buildThermalModel }, { loadScenario }, { darknessProblems }, { CalorbitError }, { REGIME_TABLE }] = await Promise.all([
     import("../../physics/column.js"),
     import("../../report/format.js"),
     import("../../report/text.js"),
@@ -11,17 +11,19 @@ async function checkCommand(scenarioPath: string): Promise<void> {
     import("../io.js"),
     import("../../scenario/physical.js"),
     import("../../errors.js"),
+    import("../../model/regimes.js"),
   ]);
   const { resolved, file } = loadScenario(scenarioPath);
   const { thermal } = resolved;
-  if (thermal.map !== undefined && thermal.regime === "map") {
-    // The map regime solves cell by cell (src/run/simulateMap.ts): no single-surface model to describe.
-    const { longitudes, latitudes } = thermal.map;
+  // The map and zonal pipelines solve cell by cell or band by band: no single-surface model to describe.
+  const pipeline = REGIME_TABLE[thermal.regime].pipeline;
+  if (pipeline !== "surface") {
+    const grid = pipeline === "map" && thermal.map ? `map of ${thermal.map.longitudes} × ${thermal.map.latitudes} cells, each solved alone` : `zonal climate of ${thermal.climate?.bands ?? "its"} latitude bands`;
     out(
       [
         `${file}: valid scenario "${thermal.name}"`,
         ...describeScenario(resolved),
-        `  derived   period ${duration(thermal.orbit.periodSeconds)} (${sig(thermal.orbit.periodSeconds, 6)} s); map of ${longitudes} × ${latitudes} cells, each solved alone`,
+        `  derived   period ${duration(thermal.orbit.periodSeconds)} (${sig(thermal.orbit.periodSeconds, 6)} s); ${grid}`,
       ].join("\n") + "\n",
     );
     return;
