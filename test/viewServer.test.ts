@@ -8,14 +8,14 @@ beforeAll(async () => {
 });
 afterAll(() => viewer.close());
 
-function get(path: string, method = "GET"): Promise<{ status: number; body: string }> {
+function get(path: string, method = "GET", host?: string): Promise<{ status: number; body: string; headers: Record<string, unknown> }> {
   const { port } = new URL(viewer.url);
   return new Promise((resolve, reject) => {
     // The raw path is sent as written: Node's client does not normalise "/../".
-    const req = request({ host: "127.0.0.1", port, path, method }, (res) => {
+    const req = request({ host: "127.0.0.1", port, path, method, ...(host !== undefined ? { headers: { host } } : {}) }, (res) => {
       let body = "";
       res.on("data", (c) => (body += c));
-      res.on("end", () => resolve({ status: res.statusCode ?? 0, body }));
+      res.on("end", () => resolve({ status: res.statusCode ?? 0, body, headers: res.headers }));
     });
     req.on("error", reject);
     req.end();
@@ -29,7 +29,8 @@ describe("viewer server", () => {
     expect(viewer.url).toMatch(/^http:\/\/127\.0\.0\.1:\d+\/$/);
   });
   it("serves the result document", async () => {
-    expect(await get("/result.json")).toEqual({ status: 200, body: '{"ok":true}' });
+    const r = await get("/result.json");
+    expect({ status: r.status, body: r.body }).toEqual({ status: 200, body: '{"ok":true}' });
   });
   it("refuses path traversal, plain or encoded", async () => {
     expect((await get("/../package.json")).status).toBe(400);
@@ -39,6 +40,19 @@ describe("viewer server", () => {
   it("serves nothing outside its list", async () => {
     expect((await get("/package.json")).status).toBe(404);
     expect((await get("/src/cli/viewServer.ts")).status).toBe(404);
+  });
+  it("answers only requests addressed to itself (DNS rebinding: 421 Misdirected Request, RFC 9110 §15.5.20) and grants no CORS", async () => {
+    const { port } = new URL(viewer.url);
+    for (const host of [`127.0.0.1:${port}`, `localhost:${port}`, `[::1]:${port}`, `LOCALHOST:${port}`]) {
+      expect({ host, status: (await get("/result.json", "GET", host)).status }).toEqual({ host, status: 200 });
+    }
+    for (const host of [`evil.example:${port}`, "127.0.0.1", `127.0.0.1:${Number(port) + 1}`, `localhost.evil.example:${port}`]) {
+      const r = await get("/result.json", "GET", host);
+      expect({ host, status: r.status }).toEqual({ host, status: 421 });
+      expect(r.body).not.toContain("ok");
+    }
+    const plain = await get("/result.json");
+    expect(Object.keys(plain.headers).filter((h) => h.startsWith("access-control-"))).toEqual([]);
   });
   it("answers only GET and HEAD", async () => {
     expect((await get("/", "POST")).status).toBe(405);

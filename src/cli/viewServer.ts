@@ -1,6 +1,9 @@
 /**
  * The viewer's local server: binds to 127.0.0.1 only, serves the built viewer (dist/web) and one
- * result document, answers GET and HEAD only, and refuses any path outside its short list.
+ * result document, answers GET and HEAD only, and refuses any path outside its short list. It answers
+ * only requests addressed to itself (Host 127.0.0.1:PORT, localhost:PORT or [::1]:PORT; 421 otherwise)
+ * and grants no cross-origin access: a web page whose own name is pointed at 127.0.0.1 (DNS
+ * rebinding) sends its own name as Host, so it cannot read the result.
  */
 import { readFileSync } from "node:fs";
 import { createServer, type Server } from "node:http";
@@ -22,6 +25,11 @@ export interface ViewServer {
   close(): Promise<void>;
 }
 
+/** The Host header values that name this server on `port`. */
+function loopbackHosts(port: number): Set<string> {
+  return new Set([`127.0.0.1:${port}`, `localhost:${port}`, `[::1]:${port}`]);
+}
+
 /** Starts the server on 127.0.0.1:port (0 = a free port) serving `resultJson` at /result.json. */
 export function startViewServer(resultJson: string, port: number): Promise<ViewServer> {
   const server = createServer((req, res) => {
@@ -30,6 +38,11 @@ export function startViewServer(resultJson: string, port: number): Promise<ViewS
       "Content-Security-Policy": "default-src 'self'; img-src 'self' data: blob:; style-src 'self' 'unsafe-inline'",
       "Cache-Control": "no-store",
     };
+    const port = (server.address() as AddressInfo | null)?.port;
+    if (port === undefined || !loopbackHosts(port).has((req.headers.host ?? "").toLowerCase())) {
+      res.writeHead(421, { ...security, "Content-Type": "text/plain" }).end("misdirected request: this server answers only 127.0.0.1, localhost or [::1] with its port\n");
+      return;
+    }
     if (req.method !== "GET" && req.method !== "HEAD") {
       res.writeHead(405, { ...security, Allow: "GET, HEAD", "Content-Type": "text/plain" }).end("method not allowed\n");
       return;
