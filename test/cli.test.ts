@@ -525,7 +525,7 @@ describe("physical sanity: impossible geometry refused, doubtful results warned 
     expect((await calorbit("equilibrium", "--luminosity", "3.828e26", "--distance", "1au")).stderr).toBe("");
   });
 
-  it("warns of a bare-number luminosity on the zonal and map paths too, on stderr and in their JSON", async () => {
+  it("warns of a bare-number luminosity on the zonal and map paths, in compare and insolation too, on stderr and in their JSON", async () => {
     const warning = 'star.luminosity: 1e+20 was read as 1e+20 W, far below any star\'s (the faintest are about 1e-5 Lsun); for solar units write "1e+20 Lsun"';
     const zonalText = readFileSync(join(SCENARIOS, "vaelor-zonal.yaml"), "utf8").replace(/luminosity: [^\n#]*/, "luminosity: 1e20 ");
     const map = "name: map warn\nstar: { luminosity: 1e20, mass: 1 Msun }\norbit: { semiMajorAxis: 0.001 au, eccentricity: 0.1 }\nbody: { albedo: 0.3, emissivity: 0.9, heatCapacity: 1e5 }\nregime: map\nmap: { longitudes: 8, latitudes: 4 }\n";
@@ -535,6 +535,12 @@ describe("physical sanity: impossible geometry refused, doubtful results warned 
       expect(JSON.parse(r.stdout).warnings).toEqual([warning]);
       expect(r.stderr).toBe(`calorbit: warning: ${warning}\n`);
     }
+    // compare (JSON too) and insolation read the same scenario and say the same.
+    const global = scenarioFile("global-watts.yaml", map.replace(/regime: map\nmap: .*\n/, ""));
+    const compared = await calorbit("compare", global, "--regimes", "global", "--json");
+    expect(JSON.parse(compared.stdout).warnings).toEqual([warning]);
+    expect(compared.stderr).toBe(`calorbit: warning: ${warning}\n`);
+    expect((await calorbit("insolation", global, "--latitudes", "3", "--phases", "2")).stderr).toContain(`calorbit: warning: ${warning}\n`);
   });
 
   it("warns that daily means do not describe a slow or resonant rotator (3:2), and not for a fast one", async () => {

@@ -5,7 +5,7 @@ import { REGIME_TABLE, REGIMES, SURFACE_REGIMES, type Regime } from "../../model
 import { CalorbitError } from "../../errors.js";
 import { integerFlag, toleranceFlag, usage } from "../flags.js";
 import { refuseClobber } from "../outputPaths.js";
-import { out } from "../output.js";
+import { out, warn } from "../output.js";
 
 interface CompareFlags {
   regimes: string;
@@ -40,7 +40,10 @@ async function compareCommand(scenarioPath: string | undefined, flags: CompareFl
   const noneRan = failed.length === comparison.rows.length;
   // With no regime to show, no CSV is written; the report still says, per regime, why.
   if (flags.csv !== undefined && !noneRan) writeFileAtomic(flags.csv, compareCsv(resolved, comparison));
-  if (flags.json) out(JSON.stringify(compareDocument(resolved, comparison), null, 2) + "\n");
+  // A bare-number luminosity: on stderr, never in the data; the JSON result lists it too.
+  const warnings = resolved.warnings ?? [];
+  for (const w of warnings) warn(w);
+  if (flags.json) out(JSON.stringify({ ...compareDocument(resolved, comparison), warnings }, null, 2) + "\n");
   else out(compareTable(resolved, comparison));
   if (noneRan) throw new CalorbitError("USAGE", noRegimeRan(failed.map((row) => ({ regime: row.regime, error: row.error! }))));
 }

@@ -36,7 +36,7 @@ async function insolationCommand(scenarioPath: string | undefined, flags: Insola
   const { resolved } = loadScenario(scenarioPath);
   const csv = insolationCsv(resolved, insolationMap(resolved.thermal, latitudes, phases));
   const slow = slowRotatorWarning(resolved.thermal, (spin, n) => solarDaySeconds(spin, n, resolved.thermal.spin?.obliquityRad ?? 0));
-  if (slow !== undefined) warn(slow);
+  for (const w of [...(resolved.warnings ?? []), ...(slow !== undefined ? [slow] : [])]) warn(w);
   if (flags.out !== undefined) {
     writeFileAtomic(flags.out, csv);
     out(`insolation map written to ${flags.out} (${latitudes} latitudes × ${phases} phases)\n`);
