@@ -16,7 +16,7 @@ import type { ColumnCycleExtras, ConvergedCycle, CycleRequest, SolverReport } fr
 import { isDark, slabCycle } from "./slabCycle.js";
 import { PERIODIC_METHODS, type PeriodicMethod } from "../solve/periodicKrylov.js";
 import { checkWorkload, explainStepLimit } from "./workload.js";
-import { darknessProblems } from "../scenario/physical.js";
+import { refuseDarkness } from "../scenario/physical.js";
 
 export { DEFAULT_RELATIVE_TOLERANCE, DEFAULT_SAMPLES, INTEGRATORS, type IntegratorName, type SolverReport, columnToleranceFor, DEFAULT_COLUMN_TOLERANCE };
 
@@ -114,8 +114,7 @@ export function simulate(thermal: ThermalCase, options: SimulateOptions = {}): S
     ...(options.periodicMethod ? { periodicMethod: options.periodicMethod } : {}),
   };
   checkWorkload(thermal, model, options.transient !== undefined);
-  const dark = options.transient ? [] : darknessProblems(thermal);
-  if (dark.length > 0) throw new CalorbitError("SCENARIO_INVALID", "the surface absorbs nothing over the cycle", dark);
+  if (!options.transient) refuseDarkness(thermal);
   let cycle: ConvergedCycle;
   try {
     switch (model.kind) {

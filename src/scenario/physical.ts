@@ -7,7 +7,7 @@
  * message about its own internals. Pure: no I/O.
  */
 import { MIN_AREAL_HEAT_CAPACITY_J_PER_M2K, STEFAN_BOLTZMANN } from "../constants.js";
-import type { FieldProblem } from "../errors.js";
+import { CalorbitError, type FieldProblem } from "../errors.js";
 import { REGIME_TABLE } from "../model/regimes.js";
 import type { ThermalCase } from "../model/thermalCase.js";
 import { stellarFlux } from "../physics/flux.js";
@@ -126,4 +126,12 @@ function darkPlaceProblem(thermal: ThermalCase): FieldProblem | undefined {
 /** An angle as the scenario's bare degrees (rounded to 1e-9 of a degree). */
 function degrees(rad: number): string {
   return `${Number(((rad * 180) / Math.PI).toFixed(9))} deg`;
+}
+
+/** Throws SCENARIO_INVALID with `darknessProblems`' one problem, if any: "absorbs no starlight" (albedo 1) or "never sees the star". */
+export function refuseDarkness(thermal: ThermalCase): void {
+  const problems = darknessProblems(thermal);
+  if (problems.length === 0) return;
+  const message = problems[0]!.path === "body.albedo" ? "the surface absorbs no starlight" : "the surface never sees the star";
+  throw new CalorbitError("SCENARIO_INVALID", message, problems);
 }

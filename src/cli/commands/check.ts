@@ -3,14 +3,13 @@ import type { Command } from "commander";
 import { out } from "../output.js";
 
 async function checkCommand(scenarioPath: string): Promise<void> {
-  const [{ specificHeatAt }, { duration, sig }, { describeScenario }, { buildThermalModel }, { loadScenario }, { darknessProblems }, { CalorbitError }, { REGIME_TABLE }] = await Promise.all([
+  const [{ specificHeatAt }, { duration, sig }, { describeScenario }, { buildThermalModel }, { loadScenario }, { refuseDarkness }, { REGIME_TABLE }] = await Promise.all([
     import("../../physics/column.js"),
     import("../../report/format.js"),
     import("../../report/text.js"),
     import("../../model/build.js"),
     import("../io.js"),
     import("../../scenario/physical.js"),
-    import("../../errors.js"),
     import("../../model/regimes.js"),
   ]);
   const { resolved, file } = loadScenario(scenarioPath);
@@ -28,8 +27,7 @@ async function checkCommand(scenarioPath: string): Promise<void> {
     );
     return;
   }
-  const dark = darknessProblems(thermal);
-  if (dark.length > 0) throw new CalorbitError("SCENARIO_INVALID", "the surface absorbs nothing over the cycle", dark);
+  refuseDarkness(thermal);
   const model = buildThermalModel(thermal);
   const lines = [
     `${file}: valid scenario "${thermal.name}"`,
