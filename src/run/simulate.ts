@@ -114,7 +114,7 @@ export function simulate(thermal: ThermalCase, options: SimulateOptions = {}): S
     ...(options.periodicMethod ? { periodicMethod: options.periodicMethod } : {}),
   };
   checkWorkload(thermal, model, options.transient !== undefined);
-  if (!options.transient) refuseDarkness(thermal);
+  if (!options.transient) refuseDarkness(thermal, model.surface);
   let cycle: ConvergedCycle;
   try {
     switch (model.kind) {

@@ -9,6 +9,7 @@
 import { MIN_AREAL_HEAT_CAPACITY_J_PER_M2K, STEFAN_BOLTZMANN } from "../constants.js";
 import { CalorbitError, type FieldProblem } from "../errors.js";
 import { REGIME_TABLE } from "../model/regimes.js";
+import type { Surface } from "../model/surface.js";
 import type { ThermalCase } from "../model/thermalCase.js";
 import { stellarFlux } from "../physics/flux.js";
 
@@ -61,20 +62,20 @@ export function physicalProblems(thermal: ThermalCase, given: GivenAt, heatCapac
  * so that a sweep or a fit may take albedo 1 or a pole as the end of its range (that case alone
  * fails, as its row or evaluation) while a single run is refused in one line before any solve.
  */
-export function darknessProblems(thermal: ThermalCase): FieldProblem[] {
-  const { surface } = thermal;
-  if (surface.internalFluxWPerM2 > 0 || thermal.climate !== undefined) return [];
-  if (surface.albedo >= 1) {
+export function darknessProblems(thermal: ThermalCase, surface?: Surface): FieldProblem[] {
+  const optics = thermal.surface;
+  if (optics.internalFluxWPerM2 > 0 || thermal.climate !== undefined) return [];
+  if (optics.albedo >= 1) {
     return [
       {
         path: "body.albedo",
-        given: String(surface.albedo),
+        given: String(optics.albedo),
         allowed: "an albedo below 1 (at 1 the surface reflects all starlight, absorbs nothing and cools toward 0 K, so it has no steady temperature), or body.internalFlux above 0",
       },
     ];
   }
   if (thermal.regime !== "band" && thermal.regime !== "point") return [];
-  const problem = darkPlaceProblem(thermal);
+  const problem = darkPlaceProblem(thermal, surface ?? REGIME_TABLE[thermal.regime].surface(thermal));
   return problem ? [problem] : [];
 }
 
@@ -100,9 +101,8 @@ function specificHeatProblem(polynomial: readonly number[], hottestK: number, gi
 }
 
 /** A band or point that the star never reaches over the whole cycle, named by the field to change. */
-function darkPlaceProblem(thermal: ThermalCase): FieldProblem | undefined {
-  const entry = REGIME_TABLE[thermal.regime];
-  const cell = entry.surface(thermal).cells[0]!;
+function darkPlaceProblem(thermal: ThermalCase, surface: Surface): FieldProblem | undefined {
+  const cell = surface.cells[0]!;
   const reference = (1 - thermal.surface.albedo) * stellarFlux(thermal.star.luminosityW, thermal.orbit.semiMajorAxisM);
   if (cell.forcing.meanAbsorbedWPerM2 > DARK_SHARE * reference) return undefined;
   const latitude = thermal.location?.latitudeRad ?? 0;
@@ -128,9 +128,9 @@ function degrees(rad: number): string {
   return `${Number(((rad * 180) / Math.PI).toFixed(9))} deg`;
 }
 
-/** Throws SCENARIO_INVALID with `darknessProblems`' one problem, if any: "absorbs no starlight" (albedo 1) or "never sees the star". */
-export function refuseDarkness(thermal: ThermalCase): void {
-  const problems = darknessProblems(thermal);
+/** Throws SCENARIO_INVALID with `darknessProblems`' one problem (`surface`: the model's, when built already), if any: "absorbs no starlight" (albedo 1) or "never sees the star". */
+export function refuseDarkness(thermal: ThermalCase, surface?: Surface): void {
+  const problems = darknessProblems(thermal, surface);
   if (problems.length === 0) return;
   const message = problems[0]!.path === "body.albedo" ? "the surface absorbs no starlight" : "the surface never sees the star";
   throw new CalorbitError("SCENARIO_INVALID", message, problems);
