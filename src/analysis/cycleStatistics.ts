@@ -334,8 +334,14 @@ function timeInsideInterval(
  * Time mean of an explicit function f(E) over the grid, Simpson's rule on every interval, each
  * interval first split where f switches between zero and positive (sunrise and sunset of a
  * point: f has a corner there, which would cost the plain rule its order). `dtdE` is dt/dE.
+ * `atGrid` may hold f and dt/dE at the grid points already (they are then not evaluated again).
  */
-export function explicitTimeMean(xs: Float64Array, f: (x: number) => number, dtdE: (x: number) => number): number {
+export function explicitTimeMean(
+  xs: Float64Array,
+  f: (x: number) => number,
+  dtdE: (x: number) => number,
+  atGrid?: { values: Float64Array; timePerAnomaly: Float64Array },
+): number {
   let sum = 0;
   let weight = 0;
   // Simpson on [a, b] with the end values already known.
@@ -346,13 +352,13 @@ export function explicitTimeMean(xs: Float64Array, f: (x: number) => number, dtd
     sum += h * (fa * wa + 4 * f(m) * wm + fb * wb);
     weight += h * (wa + 4 * wm + wb);
   };
-  let fa = f(xs[0]!);
-  let wa = dtdE(xs[0]!);
+  let fa = atGrid ? atGrid.values[0]! : f(xs[0]!);
+  let wa = atGrid ? atGrid.timePerAnomaly[0]! : dtdE(xs[0]!);
   for (let k = 0; k + 1 < xs.length; k++) {
     const a = xs[k]!;
     const b = xs[k + 1]!;
-    const fb = f(b);
-    const wb = dtdE(b);
+    const fb = atGrid ? atGrid.values[k + 1]! : f(b);
+    const wb = atGrid ? atGrid.timePerAnomaly[k + 1]! : dtdE(b);
     if (fa > 0 !== fb > 0) {
       let lo = a;
       let hi = b;

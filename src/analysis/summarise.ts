@@ -106,12 +106,21 @@ export function cycleSummary(input: SummaryInput): CycleSummary {
   const count = statsE.length;
   const dtdE = new Float64Array(count);
   const equilibria = new Float64Array(count * n);
+  // The forcing at the statistics points, once per cell: the equilibria, the absorbed means and the
+  // corner-split means below all read it (each evaluated it again before).
+  const absorbedAll = new Float64Array(count * n);
   const eq = new Float64Array(n);
+  const ofAbsorbed = model.equilibriumOfAbsorbed;
   for (let k = 0; k < count; k++) {
     const E = statsE[k]!;
     dtdE[k] = model.timePerAnomaly(E);
-    model.equilibriumAt(E, eq);
-    for (let i = 0; i < n; i++) equilibria[k * n + i] = eq[i]!;
+    for (let i = 0; i < n; i++) absorbedAll[k * n + i] = model.absorbedAt(E, i);
+    if (ofAbsorbed) {
+      for (let i = 0; i < n; i++) equilibria[k * n + i] = ofAbsorbed(absorbedAll[k * n + i]!);
+    } else {
+      model.equilibriumAt(E, eq);
+      for (let i = 0; i < n; i++) equilibria[k * n + i] = eq[i]!;
+    }
   }
   const derivatives = statsDerivative;
   const states: StateSummary[] = [];
@@ -119,7 +128,7 @@ export function cycleSummary(input: SummaryInput): CycleSummary {
   let totalAbsorbed = 0;
   let totalEmitted = 0;
   for (let i = 0; i < n; i++) {
-    const s = stateSummary(input, i, dtdE, derivatives, equilibria);
+    const s = stateSummary(input, i, dtdE, derivatives, equilibria, absorbedAll);
     states.push(s);
     totalAbsorbed += model.areaWeights[i]! * s.meanAbsorbedWPerM2;
     totalEmitted += model.areaWeights[i]! * s.meanEmittedWPerM2;
@@ -173,6 +182,7 @@ function stateSummary(
   dtdE: Float64Array,
   derivatives: Float64Array,
   equilibria: Float64Array,
+  absorbedAll: Float64Array,
 ): StateSummary {
   const { model, orbit, statsE, statsY } = input;
   const n = model.stateNames.length;
@@ -183,7 +193,7 @@ function stateSummary(
   const emitted = new Float64Array(count);
   const absorbed = new Float64Array(count);
   for (let k = 0; k < count; k++) {
-    absorbed[k] = model.absorbedAt(statsE[k]!, state);
+    absorbed[k] = absorbedAll[k * n + state]!;
     const T = statsY[k * n + state]!;
     t[k] = T;
     d[k] = derivatives[k * n + state]!;
@@ -192,10 +202,13 @@ function stateSummary(
     emitted[k] = model.emissionCoefficient * T2 * T2;
   }
   const eqBuffer = new Float64Array(n);
-  const equilibriumOfState = (E: number): number => {
-    model.equilibriumAt(E, eqBuffer);
-    return eqBuffer[state]!;
-  };
+  const ofAbsorbed = model.equilibriumOfAbsorbed;
+  const equilibriumOfState = ofAbsorbed
+    ? (E: number): number => ofAbsorbed(model.absorbedAt(E, state))
+    : (E: number): number => {
+        model.equilibriumAt(E, eqBuffer);
+        return eqBuffer[state]!;
+      };
   const tMax = hermiteExtremum(statsE, t, d, 1);
   const tMin = hermiteExtremum(statsE, t, d, -1);
   const eqMax = refinedExtremum(statsE, teq, equilibriumOfState, 1);
@@ -204,7 +217,7 @@ function stateSummary(
   const timePerAnomaly = (E: number) => model.timePerAnomaly(E);
   // Smooth forcing: the trapezoidal rule on the samples converges geometrically; corners need splitting.
   const corners = model.forcingHasCorners;
-  const equilibrium = stats(eqMin.value, eqMax.value, corners ? explicitTimeMean(statsE, equilibriumOfState, timePerAnomaly) : timeMean(teq, dtdE));
+  const equilibrium = stats(eqMin.value, eqMax.value, corners ? explicitTimeMean(statsE, equilibriumOfState, timePerAnomaly, { values: teq, timePerAnomaly: dtdE }) : timeMean(teq, dtdE));
 
   const periodSeconds = orbit.periodSeconds;
   const timeOfMaxSeconds = timeAtEccentric(orbit, tMax.x);
@@ -222,7 +235,7 @@ function stateSummary(
     lagSeconds,
     dampingRatio,
     meanAbsorbedWPerM2:
-      (corners ? explicitTimeMean(statsE, (E) => model.absorbedAt(E, state), timePerAnomaly) : timeMean(absorbed, dtdE)) + model.internalFluxWPerM2,
+      (corners ? explicitTimeMean(statsE, (E) => model.absorbedAt(E, state), timePerAnomaly, { values: absorbed, timePerAnomaly: dtdE }) : timeMean(absorbed, dtdE)) + model.internalFluxWPerM2,
     meanEmittedWPerM2: timeMean(emitted, dtdE),
     wienPeakAtMinM: temperature.minK > 0 ? wienPeakWavelengthM(temperature.minK) : null,
     wienPeakAtMaxM: temperature.maxK > 0 ? wienPeakWavelengthM(temperature.maxK) : null,
