@@ -38,7 +38,7 @@ describe("long runs: refused up front by the field that makes them long, step li
     expect(e.problems[0]!.allowed).toMatch(/^a spin whose cycle repeats within \d+ orbits \(this one repeats after 3000 orbits/);
   });
 
-  it("words a step limit as what to change: the tolerance, and for a point with many sunrises per orbit the spin", () => {
+  it("words a step limit as what to change: the tolerance, and for a point with many sunrises per orbit the spin; the shooting's cap too", () => {
     // A sidereal day of 1 d on a 365.26 d prograde orbit gives 365.26 − 1 ≈ 364 solar days per orbit (common practice).
     const thermal = point({ period: "1 d", obliquity: 20 }, 1e4);
     const model = buildThermalModel(thermal);
@@ -50,6 +50,12 @@ describe("long runs: refused up front by the field that makes them long, step li
     // At a loose tolerance and a slow spin there is only the general advice; other errors pass unchanged.
     const slow = point({ orbitRatio: "1:1" });
     expect((explainStepLimit(limit, slow, buildThermalModel(slow), 1e-4) as CalorbitError).message).toMatch(/; to finish: loosen the tolerance \(--tolerance\) or raise body\.heatCapacity/);
+    // The odex package's wording of the same limit, and the shooting's iteration cap.
+    const odexLimit = new CalorbitError("INTEGRATION_FAILED", "the ODE solver stopped after 200000 steps without reaching the end of the orbit (step limit)");
+    expect((explainStepLimit(odexLimit, thermal, model, 1e-8) as CalorbitError).message).toContain("; to finish: loosen the tolerance (--tolerance, now 1e-8");
+    const unsettled = explainStepLimit(new CalorbitError("PERIODIC_NO_CONVERGENCE", "no periodic steady state after 40 cycles (last relative residual 1.40e-6)"), thermal, model, 1e-8) as CalorbitError;
+    expect(unsettled.code).toBe("PERIODIC_NO_CONVERGENCE");
+    expect(unsettled.message).toBe("no periodic steady state after 40 cycles (last relative residual 1.40e-6); to settle it: loosen the tolerance (--tolerance, now 1e-8); or run a transient from a start (--from 250K --orbits 20) and look at how it evolves");
     const other = new CalorbitError("INTEGRATION_FAILED", "the temperature left the physical range (T ≤ 0 K)");
     expect(explainStepLimit(other, thermal, model, 1e-8)).toBe(other);
   });

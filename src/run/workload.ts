@@ -37,12 +37,19 @@ export function checkWorkload(thermal: ThermalCase, model: ThermalModel, transie
 }
 
 /**
- * A solver's step-limit error, reworded to say what to change; any other error unchanged. The
- * advice follows the case: a looser tolerance when it is tight, a slower spin (or the band regime's
- * daily mean) when a point sees many sunrises per orbit, a shorter cycle when it spans many orbits.
+ * A solver's step-limit error, reworded to say what to change (and the shooting's iteration cap: a
+ * looser tolerance, or a transient to look at); any other error unchanged. The advice follows the
+ * case: a looser tolerance when it is tight, a slower spin (or the band regime's daily mean) when a
+ * point sees many sunrises per orbit, a shorter cycle when it spans many orbits.
  */
 export function explainStepLimit(error: unknown, thermal: ThermalCase, model: ThermalModel, relativeTolerance: number): unknown {
-  if (!(error instanceof CalorbitError) || error.code !== "INTEGRATION_FAILED" || !/exceeded \d+ steps/.test(error.message)) return error;
+  if (!(error instanceof CalorbitError)) return error;
+  if (error.code === "PERIODIC_NO_CONVERGENCE" && /^no periodic steady state/.test(error.message)) {
+    // The shooting's cap: a looser target, or a transient from a start to see how the case behaves.
+    const looser = relativeTolerance < LOOSEST_ADVISED_TOLERANCE ? `loosen the tolerance (--tolerance, now ${relativeTolerance}); or ` : "";
+    return new CalorbitError("PERIODIC_NO_CONVERGENCE", `${error.message}; to settle it: ${looser}run a transient from a start (--from 250K --orbits 20) and look at how it evolves`);
+  }
+  if (error.code !== "INTEGRATION_FAILED" || !/exceeded \d+ steps|\(step limit\)/.test(error.message)) return error;
   const advice: string[] = [];
   if (relativeTolerance < LOOSEST_ADVISED_TOLERANCE) {
     advice.push(`loosen the tolerance (--tolerance, now ${relativeTolerance}: 1e-6 needs far fewer steps)`);
