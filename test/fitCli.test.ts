@@ -32,7 +32,7 @@ orbit: { semiMajorAxis: 0.06 au, eccentricity: 0.3 }
 body: { albedo: 0.3, emissivity: 1, heatCapacity: 1 MJ/m2/K, radius: 1.1 Rjup }
 regime: map
 spin: { orbitRatio: "1:1" }
-map: { longitudes: 12, latitudes: 6 }
+map: { longitudes: 8, latitudes: 4 }
 observer: { inclination: 80 deg, argumentOfPeriastron: 30 deg, passband: { file: band.csv } }
 `;
 const BAND = "# an invented response\nwavelength_um,response\n3.5,0\n4.0,1\n5.0,1\n5.5,0\n";

@@ -53,10 +53,10 @@ function errorBarsPlugin(time: readonly number[], value: readonly number[], erro
   };
 }
 
-/** A y range holding every value and bar (and `least` on both sides of 0, when given), padded by 5 %. */
+/** A y range holding every value and bar (and ±`least` when it is positive), padded by 5 %. */
 function spanOf(lows: readonly number[], highs: readonly number[], least = 0): uPlot.Range.MinMax {
-  let lo = Math.min(...lows, -least);
-  let hi = Math.max(...highs, least);
+  let lo = Math.min(...lows, ...(least > 0 ? [-least] : []));
+  let hi = Math.max(...highs, ...(least > 0 ? [least] : []));
   if (!(hi > lo)) [lo, hi] = [lo - 1, hi + 1];
   const pad = 0.05 * (hi - lo);
   return [lo - pad, hi + pad];
