@@ -2,7 +2,7 @@ import { describe, expect, it } from "vitest";
 import { CalorbitError } from "../src/errors.js";
 import { buildThermalModel } from "../src/model/build.js";
 import { simulate } from "../src/run/simulate.js";
-import { explainStepLimit, MAX_CYCLE_STATISTICS_POINTS } from "../src/run/workload.js";
+import { explainStepLimit, longCycleNote, MAX_CYCLE_STATISTICS_POINTS } from "../src/run/workload.js";
 import { resolveScenario } from "../src/scenario/resolve.js";
 
 const point = (spin: Record<string, unknown>, heatCapacity = 1e6) =>
@@ -58,5 +58,14 @@ describe("long runs: refused up front by the field that makes them long, step li
     expect(unsettled.message).toBe("no periodic steady state after 40 cycles (last relative residual 1.40e-6); to settle it: loosen the tolerance (--tolerance, now 1e-8); or run a transient from a start (--from 250K --orbits 20) and look at how it evolves");
     const other = new CalorbitError("INTEGRATION_FAILED", "the temperature left the physical range (T ≤ 0 K)");
     expect(explainStepLimit(other, thermal, model, 1e-8)).toBe(other);
+  });
+
+  it("announces a cycle of hundreds of orbits before the run (1:1000), not a short one (3:2, 1:99) nor one it will refuse (1:3000)", () => {
+    expect(longCycleNote(point({ orbitRatio: "1:1000" }))).toBe(
+      'spin.orbitRatio "1:1000" repeats only after 1000 orbits, and the periodic state takes about three passes over them: expect a long run (a ratio with a smaller q, or a spin.period, is quicker)',
+    );
+    // 2:200 is 1:100 in lowest terms (a p:q resonance repeats after q / gcd(p, q) orbits, common practice).
+    expect(longCycleNote(point({ orbitRatio: "2:200" }))).toMatch(/repeats only after 100 orbits/);
+    for (const orbitRatio of ["3:2", "1:99", "1:3000"]) expect({ orbitRatio, note: longCycleNote(point({ orbitRatio })) }).toEqual({ orbitRatio, note: undefined });
   });
 });

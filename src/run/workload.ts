@@ -5,6 +5,7 @@
  */
 import { CalorbitError, describeValue, type FieldProblem } from "../errors.js";
 import type { ThermalModel } from "../model/build.js";
+import { gcd } from "../model/regimes.js";
 import type { ThermalCase } from "../model/thermalCase.js";
 
 /**
@@ -13,6 +14,11 @@ import type { ThermalCase } from "../model/thermalCase.js";
  * points and about 0.3 GB; measured). The seasonal run's beat has the same budget (slabCycle.ts).
  */
 export const MAX_CYCLE_STATISTICS_POINTS = 1 << 22;
+
+/** Orbits per cycle from which a run is announced as long before it starts. */
+const LONG_CYCLE_ORBITS = 100;
+/** Statistics points per orbit of a point's slow spin (its sunrise corners: build.ts); bounds the announced range. */
+const POINT_POINTS_PER_ORBIT = 2048;
 
 /** A tolerance above which loosening it further is no advice. */
 const LOOSEST_ADVISED_TOLERANCE = 1e-5;
@@ -63,4 +69,18 @@ export function explainStepLimit(error: unknown, thermal: ThermalCase, model: Th
   }
   if (advice.length === 0) advice.push("loosen the tolerance (--tolerance) or raise body.heatCapacity, either of which smooths the history the solver steps through");
   return new CalorbitError("INTEGRATION_FAILED", `${error.message}; to finish: ${advice.join("; or ")}`);
+}
+
+/**
+ * A sentence for stderr before a run whose p:q spin makes a cycle of hundreds of orbits (issue 15: a
+ * 1:1000 spin "produced nothing in 120 s"; it finishes, but in tens of seconds on a loaded machine),
+ * saying what makes it long and what is quicker; undefined for any other case, and for a cycle so long
+ * that the run will refuse it (`checkWorkload`).
+ */
+export function longCycleNote(thermal: ThermalCase): string | undefined {
+  const ratio = thermal.spin?.ratio;
+  if (thermal.regime !== "point" || ratio === undefined) return undefined;
+  const orbits = ratio.orbit / gcd(ratio.spin, ratio.orbit);
+  if (orbits < LONG_CYCLE_ORBITS || orbits * POINT_POINTS_PER_ORBIT > MAX_CYCLE_STATISTICS_POINTS) return undefined;
+  return `spin.orbitRatio "${ratio.spin}:${ratio.orbit}" repeats only after ${orbits} orbits, and the periodic state takes about three passes over them: expect a long run (a ratio with a smaller q, or a spin.period, is quicker)`;
 }

@@ -5,7 +5,7 @@ import type { SimulateOptions } from "../../run/simulate.js";
 import type { ResolvedScenario } from "../../scenario/resolve.js";
 import { integerFlag, integratorFlag, quantityFlag, toleranceFlag, usage } from "../flags.js";
 import { refuseClobber } from "../outputPaths.js";
-import { out, warn } from "../output.js";
+import { err, out, warn } from "../output.js";
 
 interface RunFlags {
   integrator?: string;
@@ -41,10 +41,11 @@ async function runCommand(scenarioPath: string | undefined, flags: RunFlags): Pr
     if (!(options.transient.startK > 0)) throw usage("--from", JSON.stringify(flags.from), "a temperature > 0 K");
   }
   // Loaded here, not at start-up: the scenario reader, the solvers and the writers.
-  const [{ loadScenario, writeFileAtomic }, { columnToleranceFor, simulate }, { heatStoreOf }, { REGIME_TABLE }, { seriesCsv }, { resultDocument }, { temperatureSvg }, { summaryText }, { resultWarnings }] =
+  const [{ loadScenario, writeFileAtomic }, { columnToleranceFor, simulate }, { longCycleNote }, { heatStoreOf }, { REGIME_TABLE }, { seriesCsv }, { resultDocument }, { temperatureSvg }, { summaryText }, { resultWarnings }] =
     await Promise.all([
       import("../io.js"),
       import("../../run/simulate.js"),
+      import("../../run/workload.js"),
       import("../../model/heatStore.js"),
       import("../../model/regimes.js"),
       import("../../report/csv.js"),
@@ -86,6 +87,8 @@ async function runCommand(scenarioPath: string | undefined, flags: RunFlags): Pr
     // The column's periodicity and energy tolerance: 1e-6 unless --tolerance says otherwise.
     options.relativeTolerance = columnToleranceFor(options.relativeTolerance!, DEFAULT_RELATIVE_TOLERANCE);
   }
+  const note = longCycleNote(resolved.thermal);
+  if (note !== undefined) err(`calorbit: note: ${note}\n`);
   const sim = simulate(resolved.thermal, options);
   report(resultWarnings(resolved.thermal, sim.summary, { periodic: sim.solver.mode === "periodic", singleState: sim.series.states.length === 1 }));
   if (flags.csv !== undefined) writeFileAtomic(flags.csv, seriesCsv(resolved, sim));
