@@ -46,10 +46,19 @@ const CELLS: RegimeEntry = {
 
 vi.mock("../src/model/regimes.js", async (importOriginal) => {
   const original = await importOriginal<typeof import("../src/model/regimes.js")>();
-  const table = { ...original.REGIME_TABLE, cells: CELLS } as unknown as typeof original.REGIME_TABLE;
+  // Two surface points at longitudes 0 and 2 rad as the independent cells of one surface.
+  const point = original.REGIME_TABLE.point;
+  const points: RegimeEntry = {
+    ...point,
+    surface: (t) => {
+      const at = (longitudeRad: number) => point.surface({ ...t, location: { latitudeRad: 0.3, longitudeRad } });
+      return { ...at(0), cells: [0, 2].map((longitudeRad, i) => ({ ...at(longitudeRad).cells[0]!, name: `point${i}`, areaWeight: 0.5 })) };
+    },
+  };
+  const table = { ...original.REGIME_TABLE, cells: CELLS, points } as unknown as typeof original.REGIME_TABLE;
   return {
     ...original,
-    REGIMES: [...original.REGIMES, "cells"],
+    REGIMES: [...original.REGIMES, "cells", "points"],
     REGIME_TABLE: table,
     regimeEntry: (thermal: Parameters<typeof original.regimeEntry>[0], kind: Parameters<typeof original.regimeEntry>[1]) => original.regimeEntry(thermal, kind, table),
   };
@@ -206,5 +215,18 @@ describe("slab cells that exchange heat", () => {
     const sim = simulate({ ...nominalCase({ e: 0.5, heatCapacity: 2e7 }), regime: "cells" as Regime }, { samples: 0 });
     expect(Math.abs(sim.summary.energyBalanceResidual!)).toBeLessThan(1e-8);
     expect(sim.summary.cells).toHaveLength(20);
+  });
+
+  it("solves independent surface points each with its own sunrises and sunsets: each equals the point regime alone (common practice: cells that exchange nothing are separate problems)", () => {
+    const base = nominalCase({ e: 0.2, heatCapacity: 2e4 });
+    const n = 2 * Math.PI / base.orbit.periodSeconds;
+    const spun = { ...base, spin: { rateRadPerSecond: 3 * n, ratio: { spin: 3, orbit: 1 }, obliquityRad: 0.2, equinoxTrueAnomalyRad: 0 } };
+    const both = simulate({ ...spun, regime: "points" as Regime }, { samples: 0 }).summary;
+    [0, 2].forEach((longitudeRad, i) => {
+      const alone = simulate({ ...spun, regime: "point", location: { latitudeRad: 0.3, longitudeRad } }, { samples: 0 }).summary;
+      for (const key of ["minK", "maxK", "meanK"] as const) expect(relative(both.cells![i]!.temperature[key], alone.temperature[key])).toBeLessThan(1e-7);
+    });
+    // The two points see the star at different times of the orbit: their extremes differ.
+    expect(Math.abs(both.cells![0]!.temperature.maxK - both.cells![1]!.temperature.maxK)).toBeGreaterThan(1);
   });
 });

@@ -73,7 +73,7 @@ export function slabCycle(thermal: ThermalCase, model: SlabModel, request: Cycle
           stiffness: model.stiffness,
           maxStepsPerCycle: maxStepsPerOrbit * model.cycleOrbits,
           forcingHasCorners: model.forcingHasCorners,
-          ...breakpointsOf(model, startE),
+          ...breakpointsOf(model, startE, [i]),
           memoryEstimate: -Math.expm1((-model.cycleOrbits * orbit.periodSeconds) / model.radiativeTimeSeconds),
         },
         { relativeTolerance: rtol, samples: one, ...(request.integrator ? { integrator: request.integrator } : {}) },
@@ -105,7 +105,7 @@ export function slabCycle(thermal: ThermalCase, model: SlabModel, request: Cycle
         stiffness: model.stiffness,
         maxStepsPerCycle: maxStepsPerOrbit * model.cycleOrbits,
         forcingHasCorners: model.forcingHasCorners,
-        ...breakpointsOf(model, startE),
+        ...breakpointsOf(model, startE, model.stateNames.map((_, i) => i)),
         memoryEstimate: krylov
           ? slowestMemory(model, y0, orbit.periodSeconds)
           : -Math.expm1((-model.cycleOrbits * orbit.periodSeconds) / model.radiativeTimeSeconds),
@@ -176,13 +176,16 @@ function slowestMemory(model: SlabModel, guess: Float64Array, periodSeconds: num
  * bisection, or none at all for a forcing that is smooth after all. Otherwise the solve keeps the
  * fine tolerance that corners inside steps need.
  */
-function breakpointsOf(model: SlabModel, startE: number): { breakpoints?: Float64Array } {
+function breakpointsOf(model: SlabModel, startE: number, cells: readonly number[]): { breakpoints?: Float64Array } {
   if (!model.forcingHasCorners) return {};
   switch (model.surface.cornerSearch) {
     case "scan": {
+      // The corners of every cell integrated together (each cell its own sunrise and sunset).
       const end = startE + TWO_PI * model.cycleOrbits;
       const scan = Math.ceil((model.statsPointsPerOrbit * model.cycleOrbits) / 4);
-      return { breakpoints: switchPoints((E) => model.absorbedAt(E, 0), startE, end, scan) };
+      const found = cells.map((i) => switchPoints((E) => model.absorbedAt(E, i), startE, end, scan));
+      if (found.length === 1) return { breakpoints: found[0]! };
+      return { breakpoints: Float64Array.from(new Set(found.flatMap((f) => Array.from(f)))).sort() };
     }
     case "smooth":
       return { breakpoints: new Float64Array(0) };
