@@ -229,4 +229,20 @@ describe("slab cells that exchange heat", () => {
     // The two points see the star at different times of the orbit: their extremes differ.
     expect(Math.abs(both.cells![0]!.temperature.maxK - both.cells![1]!.temperature.maxK)).toBeGreaterThan(1);
   });
+
+  it("refuses the dense solve for more coupled cells than it can carry, in one line naming the option, the value and what is allowed", () => {
+    setup.lit = "global";
+    bands(101);
+    setup.links = chain(101, 1);
+    let caught: unknown;
+    try {
+      simulate({ ...nominalCase({ e: 0.1, heatCapacity: 1e7 }), regime: "cells" as Regime }, { samples: 0, periodicMethod: "dense" });
+    } catch (error) {
+      caught = error;
+    }
+    const error = caught as { code: string; message: string; problems: unknown[] };
+    expect(error.code).toBe("INVALID_ARGUMENT");
+    expect(error.message).toBe("the dense periodic solve of 101 coupled cells would integrate 10302 components");
+    expect(error.problems).toEqual([{ path: "periodicMethod", given: "dense", allowed: "newton-krylov above 100 coupled cells (dense: at most 100)" }]);
+  });
 });

@@ -19,6 +19,8 @@ const TWO_PI = 2 * Math.PI;
 /** Step caps of one orbit's integration: a runaway guard, raised for a point that sees many sunrises. */
 const MIN_STEP_CAP = 200_000;
 const STEPS_PER_SOLAR_DAY = 500;
+/** Most coupled cells the dense periodic solve takes (n + n² components: 100 cells cost ~10 s, 200 cannot be factorised). */
+const MOST_DENSE_CELLS = 100;
 /** A non-commensurate spin: the most orbits integrated to forget the start. */
 const MAX_SEASONAL_ORBITS = 2000;
 
@@ -95,6 +97,11 @@ export function slabCycle(thermal: ThermalCase, model: SlabModel, request: Cycle
     const grids = makeGrids(orbit, startE, spanOrbits, summaryOrbits, sampleCount, model.statsPointsPerOrbit, n);
     // Coupled cells: the dense variational equations for a few, matrix-free Newton–Krylov for many.
     const krylov = (request.periodicMethod ?? choosePeriodicMethod(n)) === "newton-krylov";
+    if (!krylov && n > MOST_DENSE_CELLS) {
+      throw new CalorbitError("INVALID_ARGUMENT", `the dense periodic solve of ${n} coupled cells would integrate ${n + n * n} components`, [
+        { path: "periodicMethod", given: "dense", allowed: `newton-krylov above ${MOST_DENSE_CELLS} coupled cells (dense: at most ${MOST_DENSE_CELLS})` },
+      ]);
+    }
     const result = (krylov ? solvePeriodicKrylov : solvePeriodic)(
       {
         system: model.system,

@@ -29,6 +29,7 @@ import {
   integrateCycle,
   MAX_ITERATIONS,
   ODE_TOLERANCE_SHARE,
+  type IntegratorName,
   type PeriodicOptions,
   type PeriodicProblem,
   type PeriodicResult,
@@ -51,6 +52,20 @@ export const PERIODIC_METHODS: readonly PeriodicMethod[] = ["dense", "newton-kry
 /** The periodic solve for a coupled state of this many components. */
 export function choosePeriodicMethod(dimension: number): PeriodicMethod {
   return dimension >= KRYLOV_MIN_DIMENSION ? "newton-krylov" : "dense";
+}
+
+/**
+ * The integrator for a coupled state of n cells. Radau factorises its whole (here 2n-component)
+ * Jacobian densely, ~(2n)³ per step, where a Dormand–Prince step costs ~n: the explicit pair's
+ * extra steps (about the stiffness / 3 per cycle) stay cheaper up to a stiffness that grows as n²
+ * (the same threshold as one cell's at n = 6; at 200 cells ~1000× it), within the explicit pair's
+ * step cap (200,000 per cycle, so at most 2e5).
+ */
+const MOST_EXPLICIT_STIFFNESS = 2e5;
+
+export function chooseKrylovIntegrator(stiffness: number, dimension: number, forcingHasCorners = false): IntegratorName {
+  if (stiffness > MOST_EXPLICIT_STIFFNESS) return "radau";
+  return chooseIntegrator(stiffness / Math.max(1, (dimension / KRYLOV_MIN_DIMENSION) ** 2), forcingHasCorners);
 }
 
 /** Most GMRES products per Newton correction (restarted every 30). */
@@ -111,7 +126,7 @@ export function solvePeriodicKrylov(problem: PeriodicProblem, options: PeriodicO
   const base = problem.system;
   const n = base.dimension;
   const directional = new WithDirection(base);
-  const integrator = options.integrator ?? chooseIntegrator(problem.stiffness, problem.forcingHasCorners);
+  const integrator = options.integrator ?? chooseKrylovIntegrator(problem.stiffness, n, problem.forcingHasCorners);
   const rtol = options.relativeTolerance;
   const corners = problem.forcingHasCorners === true && problem.breakpoints === undefined;
   const share = corners ? CORNER_ODE_TOLERANCE_SHARE : problem.breakpoints && problem.breakpoints.length > 0 ? ARC_ODE_TOLERANCE_SHARE : ODE_TOLERANCE_SHARE;
