@@ -12,6 +12,7 @@
  * Timed: the periodic slab (summary only; τ = P and τ = 100 P), the default output series, a
  * stiff slab (τ = 1e-4 P, e = 0.95), points with 365 and 1000 solar days per orbit, a band, the
  * day/night pair, a batch of varied slabs, the 60-layer conduction column (median of repeats),
+ * many cells (coupled slab cells by the dense and the Newton–Krylov shooting, independent columns: bench/cells.ts),
  * lumped sweeps (their output read back: rows, statuses, equilibrium range), SciPy's solve_ivp on
  * the slab case when python3 has scipy, and the viewer in the browser when its script and a
  * chromium are present.

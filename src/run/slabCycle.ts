@@ -9,9 +9,9 @@ import { CalorbitError } from "../errors.js";
 import type { SlabModel } from "../model/build.js";
 import { exchangeCarriesHeat } from "../model/exchange.js";
 import type { ThermalCase } from "../model/thermalCase.js";
-import { chooseIntegrator, integrateCycle, plainOdeTolerance, solvePeriodic, type IntegratorName } from "../solve/periodic.js";
+import { integrateCycle, plainOdeTolerance, solvePeriodic, type IntegratorName } from "../solve/periodic.js";
 import { switchPoints } from "../solve/corners.js";
-import { choosePeriodicMethod, solvePeriodicKrylov } from "../solve/periodicKrylov.js";
+import { chooseCellsIntegrator, choosePeriodicMethod, solvePeriodicKrylov } from "../solve/periodicKrylov.js";
 import { addWork, emptyWork, type SolverWork } from "../solve/system.js";
 import type { ConvergedCycle, CycleRequest, SolverReport } from "./cycle.js";
 
@@ -124,7 +124,7 @@ export function slabCycle(thermal: ThermalCase, model: SlabModel, request: Cycle
     return converged(model, grids, solver, 0);
   }
 
-  const integrator = request.integrator ?? chooseIntegrator(model.stiffness / model.cycleOrbits, model.forcingHasCorners);
+  const integrator = request.integrator ?? chooseCellsIntegrator(model.stiffness / model.cycleOrbits, n, model.forcingHasCorners);
   const odeTol = plainOdeTolerance(rtol, model.forcingHasCorners);
   const y = request.transient ? new Float64Array(n).fill(request.transient.startK) : guessStart(model, thermal);
   let orbitsIntegrated = 0;

@@ -54,18 +54,20 @@ export function choosePeriodicMethod(dimension: number): PeriodicMethod {
   return dimension >= KRYLOV_MIN_DIMENSION ? "newton-krylov" : "dense";
 }
 
-/**
- * The integrator for a coupled state of n cells. Radau factorises its whole (here 2n-component)
- * Jacobian densely, ~(2n)³ per step, where a Dormand–Prince step costs ~n: the explicit pair's
- * extra steps (about the stiffness / 3 per cycle) stay cheaper up to a stiffness that grows as n²
- * (the same threshold as one cell's at n = 6; at 200 cells ~1000× it), within the explicit pair's
- * step cap (200,000 per cycle, so at most 2e5).
- */
+/** Above this the explicit pair would meet its step cap (200,000 per cycle; about stiffness / 3 steps). */
 const MOST_EXPLICIT_STIFFNESS = 2e5;
 
-export function chooseKrylovIntegrator(stiffness: number, dimension: number, forcingHasCorners = false): IntegratorName {
+/**
+ * The integrator for a coupled state of n cells (the Newton–Krylov solve, and the plain runs of a
+ * seasonal or transient surface). Radau factorises the whole Jacobian densely, ~n³ per step, where a
+ * Dormand–Prince step costs ~n: the explicit pair's extra steps (about the stiffness / 3 per cycle)
+ * stay cheaper up to a stiffness that grows as n², the one-cell threshold up to 6 cells and ~1000×
+ * it at 200 (measured: 200 coupled cells at stiffness 1171, 0.8 s with Dormand–Prince, over 300 s
+ * with Radau), and below the explicit pair's step cap.
+ */
+export function chooseCellsIntegrator(stiffness: number, cells: number, forcingHasCorners = false): IntegratorName {
   if (stiffness > MOST_EXPLICIT_STIFFNESS) return "radau";
-  return chooseIntegrator(stiffness / Math.max(1, (dimension / KRYLOV_MIN_DIMENSION) ** 2), forcingHasCorners);
+  return chooseIntegrator(stiffness / Math.max(1, (cells / KRYLOV_MIN_DIMENSION) ** 2), forcingHasCorners);
 }
 
 /** Most GMRES products per Newton correction (restarted every 30). */
@@ -126,7 +128,7 @@ export function solvePeriodicKrylov(problem: PeriodicProblem, options: PeriodicO
   const base = problem.system;
   const n = base.dimension;
   const directional = new WithDirection(base);
-  const integrator = options.integrator ?? chooseKrylovIntegrator(problem.stiffness, n, problem.forcingHasCorners);
+  const integrator = options.integrator ?? chooseCellsIntegrator(problem.stiffness, n, problem.forcingHasCorners);
   const rtol = options.relativeTolerance;
   const corners = problem.forcingHasCorners === true && problem.breakpoints === undefined;
   const share = corners ? CORNER_ODE_TOLERANCE_SHARE : problem.breakpoints && problem.breakpoints.length > 0 ? ARC_ODE_TOLERANCE_SHARE : ODE_TOLERANCE_SHARE;
