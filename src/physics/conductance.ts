@@ -50,13 +50,7 @@ export class ConductanceExchange implements ExchangeOperator {
   }
 
   addFlux(_E: number, temperatureK: ArrayLike<number>, out: Float64Array): void {
-    for (let k = 0; k < this.from.length; k++) {
-      const a = this.from[k]!;
-      const b = this.to[k]!;
-      const difference = temperatureK[b]! - temperatureK[a]!;
-      out[a] = out[a]! + this.perAreaA[k]! * difference;
-      out[b] = out[b]! - this.perAreaB[k]! * difference;
-    }
+    this.addLaplacian(temperatureK, out);
   }
 
   addJacobian(_E: number, _temperatureK: ArrayLike<number>, jacobian: Float64Array): void {
@@ -71,11 +65,17 @@ export class ConductanceExchange implements ExchangeOperator {
     }
   }
 
+  /** The exchange is linear in T, so its Jacobian product is the exchange of v itself. */
   addJacobianProduct(_E: number, _temperatureK: ArrayLike<number>, v: ArrayLike<number>, out: Float64Array): void {
+    this.addLaplacian(v, out);
+  }
+
+  /** out_a += Σ G (x_b − x_a) / w_a over the links (the weighted graph Laplacian applied to x). */
+  private addLaplacian(x: ArrayLike<number>, out: Float64Array): void {
     for (let k = 0; k < this.from.length; k++) {
       const a = this.from[k]!;
       const b = this.to[k]!;
-      const difference = v[b]! - v[a]!;
+      const difference = x[b]! - x[a]!;
       out[a] = out[a]! + this.perAreaA[k]! * difference;
       out[b] = out[b]! - this.perAreaB[k]! * difference;
     }
