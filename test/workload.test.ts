@@ -62,7 +62,7 @@ describe("long runs: refused up front by the field that makes them long, step li
 
   it("announces a cycle of hundreds of orbits before the run (1:1000), not a short one (3:2, 1:99) nor one it will refuse (1:3000)", () => {
     expect(longCycleNote(point({ orbitRatio: "1:1000" }))).toBe(
-      'spin.orbitRatio "1:1000" repeats only after 1000 orbits, and the periodic state takes about three passes over them: expect a long run (a ratio with a smaller q, or a spin.period, is quicker)',
+      'spin.orbitRatio "1:1000" repeats only after 1000 orbits, and reaching the periodic state takes several passes over them (3 for a slab, 9 for a column, measured): expect a long run (a ratio with a smaller q, or a spin.period, is quicker)',
     );
     // 2:200 is 1:100 in lowest terms (a p:q resonance repeats after q / gcd(p, q) orbits, common practice).
     expect(longCycleNote(point({ orbitRatio: "2:200" }))).toMatch(/repeats only after 100 orbits/);

@@ -82,5 +82,5 @@ export function longCycleNote(thermal: ThermalCase): string | undefined {
   if (thermal.regime !== "point" || ratio === undefined) return undefined;
   const orbits = ratio.orbit / gcd(ratio.spin, ratio.orbit);
   if (orbits < LONG_CYCLE_ORBITS || orbits * POINT_POINTS_PER_ORBIT > MAX_CYCLE_STATISTICS_POINTS) return undefined;
-  return `spin.orbitRatio "${ratio.spin}:${ratio.orbit}" repeats only after ${orbits} orbits, and the periodic state takes about three passes over them: expect a long run (a ratio with a smaller q, or a spin.period, is quicker)`;
+  return `spin.orbitRatio "${ratio.spin}:${ratio.orbit}" repeats only after ${orbits} orbits, and reaching the periodic state takes several passes over them (3 for a slab, 9 for a column, measured): expect a long run (a ratio with a smaller q, or a spin.period, is quicker)`;
 }
