@@ -417,6 +417,61 @@ describe("zonal climate fit (North's linear model)", () => {
     expect(Math.abs(global.values[0]! - OLR_B)).toBeLessThan(global.estimates[0]!.sigma!);
   });
 
+  // The seasons of the global mean, which no diffusion touches: C dT/dt = (1 − A)S(t)/4 − A − B·T(°C) on an
+  // eccentric orbit without obliquity (the daily-mean insolation averages to S/4 over the sphere). Each harmonic k
+  // of the forcing responds as F_k / (B + ikωC), the seasonal form of the mode response (North, Cahalan & Coakley
+  // 1981; the linear response of a first-order system, common practice). S(t) ∝ (a/r)² is sampled here through a
+  // Kepler solve of the test's own (Newton's method on M = E − e sin E).
+  it("recovers the heat capacity from the seasonal cycle of the global mean, placed in time as the model places it", () => {
+    const e = 0.2;
+    const heatCapacity = 1e7;
+    const seasonal = { ...scenario, orbit: { semiMajorAxis: "1 au", eccentricity: e }, body: { ...scenario.body, heatCapacity: "3e6 J/m2/K" }, climate: { ...scenario.climate, bands: 4, diffusion: D, outgoing: { law: "linear", a: OLR_A, b: OLR_B }, stepsPerOrbit: 192 } };
+    const period = calorbit.resolveScenario(structuredClone(seasonal)).thermal.orbit.periodSeconds;
+    const omega = (2 * Math.PI) / period;
+    const M = 2048;
+    const absorbed = Float64Array.from({ length: M }, (_, i) => {
+      const meanAnomaly = (2 * Math.PI * i) / M; // the scenario starts at periastron (mean anomaly 0 at t = 0)
+      let E = meanAnomaly;
+      for (let k = 0; k < 50; k++) E -= (E - e * Math.sin(E) - meanAnomaly) / (1 - e * Math.cos(E));
+      return ((1 - ALBEDO) * S) / 4 / (1 - e * Math.cos(E)) ** 2;
+    });
+    const HARMONICS = 20;
+    const re: number[] = [];
+    const im: number[] = [];
+    for (let k = 0; k <= HARMONICS; k++) {
+      let c = 0;
+      let s = 0;
+      for (let i = 0; i < M; i++) {
+        c += (absorbed[i]! * Math.cos((2 * Math.PI * k * i) / M)) / M;
+        s += (absorbed[i]! * Math.sin((2 * Math.PI * k * i) / M)) / M;
+      }
+      re.push(c);
+      im.push(s);
+    }
+    const globalMeanK = (t: number): number => {
+      let T = (re[0]! - OLR_A) / OLR_B;
+      for (let k = 1; k <= HARMONICS; k++) {
+        // forcing 2(c cos kωt + s sin kωt) = 2 Re[(c − is) e^{ikωt}], divided by B + ikωC
+        const dr = OLR_B;
+        const di = k * omega * heatCapacity;
+        const den = dr * dr + di * di;
+        const ar = (re[k]! * dr - im[k]! * di) / den;
+        const ai = (-im[k]! * dr - re[k]! * di) / den;
+        T += 2 * (ar * Math.cos(k * omega * t) - ai * Math.sin(k * omega * t));
+      }
+      return T + 273.15;
+    };
+    const n = 12;
+    const times = Float64Array.from({ length: n }, (_, i) => ((i + 0.25) * period) / n);
+    const obs = { ...observationsAt(times, new Float64Array(n).fill(0.1)), value: Float64Array.from(times, globalMeanK) };
+    const parameters = [calorbit.parseFreeParameter("body.heatCapacity=1e6..1e8", period)];
+    const out = calorbit.parseModelOutput("surface", () => null);
+    const fitted = calorbit.fitBest(new calorbit.ForwardModel({ scenario: seasonal, parameters, output: out, relativeTolerance: 1e-6, samples: 200 }, obs), parameters, { starts: 1 });
+    expect(Math.max(...obs.value) - Math.min(...obs.value)).toBeGreaterThan(5); // a real seasonal cycle to fit
+    expect(Math.abs(fitted.values[0]! - heatCapacity)).toBeLessThan(fitted.estimates[0]!.sigma!);
+    expect(fitted.reducedChiSquare).toBeLessThan(1);
+  });
+
   it("refuses a zonal fit from two starts (two climates) before fitting", () => {
     const parameters = [calorbit.parseFreeParameter("climate.diffusion=0.1..10", 1)];
     const both = { ...scenario, climate: { ...scenario.climate, start: "both" } };
