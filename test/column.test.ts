@@ -233,3 +233,23 @@ describe("the column's iteration caps", () => {
     );
   });
 });
+
+describe("the column's minimum at sunrise, between fixed steps", () => {
+  it("extrapolates the night branch to the sunrise found on the forcing (a parabola through three steps is exact for a quadratic branch: Lagrange interpolation, common practice)", async () => {
+    const { sunriseMinimum } = await import("../src/run/columnCycle.js");
+    const steps = 200;
+    const stepE = Float64Array.from({ length: steps + 1 }, (_, k) => (2 * Math.PI * k) / steps);
+    const sunrise = 2.0123; // between two steps
+    const sunset = 4.5;
+    const lit = (E: number) => E > sunrise && E < sunset;
+    // Night: cooling along a parabola that reaches 90 K at sunrise; day: a steep rise from it.
+    const temperature = (E: number) => (E <= sunrise ? 90 + 0.3 * (sunrise - E) + 0.05 * (sunrise - E) ** 2 : E < sunset ? 90 + 40 * (E - sunrise) : 200 - 5 * (E - sunset));
+    const surfaceK = Float64Array.from(stepE, temperature);
+    const found = sunriseMinimum(stepE, surfaceK, (E) => (lit(E) ? 1 : 0))!;
+    expect(Math.abs(found.E - sunrise)).toBeLessThan(1e-12);
+    expect(Math.abs(found.K - 90)).toBeLessThan(1e-10);
+    // The lowest step lies above it: the sampled minimum alone would miss the end of the night.
+    expect(Math.min(...surfaceK) - 90).toBeGreaterThan(1e-4);
+    expect(sunriseMinimum(stepE, surfaceK, () => 0)).toBeNull();
+  });
+});

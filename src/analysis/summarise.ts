@@ -96,6 +96,8 @@ export interface SummaryInput {
   /** dT/dE at the grid points, same layout, K rad⁻¹ (for the refined extremes and the window crossings). */
   statsDerivative: Float64Array;
   mode: "periodic" | "seasonal" | "transient";
+  /** Per state, a minimum between the grid's points known from elsewhere (a column's sunrise), or null. */
+  cornerMinima?: ({ E: number; K: number } | null)[];
   /** A column's own budget over the cycle (its scheme's), used instead of the surface samples'. */
   budget?: { meanAbsorbedWPerM2: number; meanEmittedWPerM2: number; residual: number };
 }
@@ -210,7 +212,9 @@ function stateSummary(
         return eqBuffer[state]!;
       };
   const tMax = hermiteExtremum(statsE, t, d, 1);
-  const tMin = hermiteExtremum(statsE, t, d, -1);
+  const gridMin = hermiteExtremum(statsE, t, d, -1);
+  const corner = input.cornerMinima?.[state] ?? null;
+  const tMin = corner !== null && corner.K < gridMin.value ? { x: corner.E, value: corner.K } : gridMin;
   const eqMax = refinedExtremum(statsE, teq, equilibriumOfState, 1);
   const eqMin = refinedExtremum(statsE, teq, equilibriumOfState, -1);
   const temperature = stats(tMin.value, tMax.value, timeMean(t, dtdE));

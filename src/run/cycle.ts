@@ -60,6 +60,8 @@ export interface ConvergedCycle {
   /** States at those points, component-major: statsY[k·n + i]; statsDerivative likewise, dT/dE in K rad⁻¹. */
   statsY: Float64Array;
   statsDerivative: Float64Array;
+  /** Per cell, a minimum the statistics grid cannot see (a column's sunrise, between fixed steps), or null. */
+  cornerMinima?: ({ E: number; K: number } | null)[];
   /** Output grid (uniform in time) and the states there. */
   outputE: Float64Array;
   outputY: Float64Array;

@@ -145,6 +145,7 @@ function finish(thermal: ThermalCase, model: ThermalModel, cycle: ConvergedCycle
     statsE: cycle.statsE,
     statsY: cycle.statsY,
     statsDerivative: cycle.statsDerivative,
+    ...(cycle.cornerMinima ? { cornerMinima: cycle.cornerMinima } : {}),
     mode: cycle.solver.mode,
     ...(cycle.column ? { budget: cycle.column.energy } : {}),
     ...(thermal.windowK ? { windowK: thermal.windowK } : {}),
