@@ -2,11 +2,12 @@
 import uPlot from "uplot";
 import { DAY_S } from "../src/constants.js";
 import { CHART_COLOURS } from "../src/view/palette.js";
-import { duration, sig } from "../src/report/format.js";
-import { columnStepSeconds, cycleWords, lagWords, windowWords } from "../src/report/wording.js";
+import { sig } from "../src/report/format.js";
+import { columnStepSeconds, lagWords, windowWords } from "../src/report/wording.js";
 import { edgesFromCentres, layerEdges } from "../src/view/heatMapLayout.js";
 import { $, expose, fmt, hideLumpedPanels, setText } from "./dom.js";
 import { drawHeatMap } from "./heatMap.js";
+import { showCycleRows, showStatsRow } from "./summaryRows.js";
 
 export interface ColumnDoc {
   scenario: { name: string; orbit: { eccentricity: number } };
@@ -19,7 +20,7 @@ export interface ColumnDoc {
     dampingRatio: number | null;
     energyBalanceResidual: number | null;
     periodSeconds: number;
-    cycleSeconds?: number;
+    cycleSeconds: number;
     solarDaySeconds?: number | null;
     timeInRange?: { lowK: number; highK: number; fraction: number; seconds: number };
   };
@@ -64,26 +65,15 @@ export function startColumn(doc: ColumnDoc): void {
   });
   const sum = doc.summary;
   setText("t-label", "T surface (K)");
-  setText("t-min", fmt(sum.temperature.minK));
-  setText("t-max", fmt(sum.temperature.maxK));
-  setText("t-mean", fmt(sum.temperature.meanK));
-  setText("t-swing", fmt(sum.temperature.swingK));
-  setText("teq-min", fmt(sum.equilibrium.minK));
-  setText("teq-max", fmt(sum.equilibrium.maxK));
-  setText("teq-mean", fmt(sum.equilibrium.meanK));
-  setText("teq-swing", fmt(sum.equilibrium.swingK));
-  setText("lag", lagWords(sum, doc.scenario.orbit.eccentricity, columnStepSeconds({ cycleSeconds: sum.cycleSeconds ?? sum.periodSeconds }, doc.solver)));
+  showStatsRow("t", sum.temperature);
+  showStatsRow("teq", sum.equilibrium);
+  setText("lag", lagWords(sum, doc.scenario.orbit.eccentricity, columnStepSeconds(sum, doc.solver)));
   setText("damping", sum.dampingRatio === null ? "—" : fmt(sum.dampingRatio, 3));
   const d = sum.skinDepths;
   setText("tau-label", d.diurnalM !== null ? "skin depths (solar day, orbit)" : "skin depth (orbit)");
   setText("tau", `${d.diurnalM !== null ? `${sig(d.diurnalM, 2)} m, ` : ""}${sig(d.orbitalM, 2)} m`);
-  setText("in-range", windowWords({ ...sum, cycleSeconds: sum.cycleSeconds ?? sum.periodSeconds }) ?? "no window set");
+  setText("in-range", windowWords(sum) ?? "no window set");
   setText("residual", sum.energyBalanceResidual === null ? "—" : sum.energyBalanceResidual.toExponential(1));
-  setText("period", `${fmt(sum.periodSeconds / DAY_S, 2)} d`);
-  const cycle = sum.cycleSeconds ?? sum.periodSeconds;
-  setText("cycle", cycleWords(sum.periodSeconds, cycle) === "of the orbit" ? "one orbit" : `${sig(cycle / sum.periodSeconds, 3)} orbits`);
-  const solar = sum.solarDaySeconds;
-  $("solar-day-row").hidden = solar === undefined;
-  if (solar !== undefined) setText("solar-day", solar === null ? "none (synchronous spin)" : duration(solar));
+  showCycleRows(sum);
   expose({ mode: "column", summary: sum });
 }

@@ -5,13 +5,12 @@
  * x axis changes.
  */
 import uPlot from "uplot";
-import { DAY_S } from "../src/constants.js";
 import { CalorbitError } from "../src/errors.js";
 import { REGIME_TABLE, SURFACE_REGIMES, type Regime } from "../src/model/regimes.js";
 import type { ThermalCase } from "../src/model/thermalCase.js";
 import { thermalCaseFromRecord, type ResultDocument } from "../src/report/document.js";
 import { duration, sig } from "../src/report/format.js";
-import { cycleWords, lagWords, windowWords } from "../src/report/wording.js";
+import { lagWords, windowWords } from "../src/report/wording.js";
 import { simulate, type Simulation } from "../src/run/simulate.js";
 import { VERSION } from "../src/version.js";
 import { chartColumns, chartMarkers, periodicResample, type ChartColumns, type Markers } from "../src/view/chartData.js";
@@ -22,6 +21,7 @@ import { decodeViewState, encodeViewState, type ViewState } from "../src/view/vi
 import { ParameterControl, TextControl } from "./controls.js";
 import { $, download, expose, fmt, setText } from "./dom.js";
 import { markersPlugin } from "./markers.js";
+import { showCycleRows, showStatsRow } from "./summaryRows.js";
 
 const SAMPLES = 2000;
 /** The regimes the live view computes (those that sit on a slab), in the table's menu order. */
@@ -354,22 +354,10 @@ function showSummary(sim: Simulation, thermal: ThermalCase): void {
   const first = twoStates ? s.day! : s;
   setText("t-label", twoStates ? "T day (K)" : "T (K)");
   setText("teq-label", twoStates ? "T_eq day (K)" : "T_eq (K)");
-  setText("t-min", fmt(first.temperature.minK));
-  setText("t-max", fmt(first.temperature.maxK));
-  setText("t-mean", fmt(first.temperature.meanK));
-  setText("t-swing", fmt(first.temperature.swingK));
-  setText("teq-min", fmt(first.equilibrium.minK));
-  setText("teq-max", fmt(first.equilibrium.maxK));
-  setText("teq-mean", fmt(first.equilibrium.meanK));
-  setText("teq-swing", fmt(first.equilibrium.swingK));
+  showStatsRow("t", first.temperature);
+  showStatsRow("teq", first.equilibrium);
   $("night-rows").hidden = !twoStates;
-  if (twoStates) {
-    const n = s.night!;
-    setText("night-min", fmt(n.temperature.minK));
-    setText("night-max", fmt(n.temperature.maxK));
-    setText("night-mean", fmt(n.temperature.meanK));
-    setText("night-swing", fmt(n.temperature.swingK));
-  }
+  if (twoStates) showStatsRow("night", s.night!.temperature);
   setText("lag", lagWords(s, thermal.orbit.eccentricity));
   setText("damping-label", twoStates ? "damping ratio (day side)" : "damping ratio");
   setText("damping", s.dampingRatio === null ? "—" : fmt(s.dampingRatio, 3));
@@ -377,10 +365,5 @@ function showSummary(sim: Simulation, thermal: ThermalCase): void {
   setText("tau", s.tauOverPeriod === null || s.radiativeTimeSeconds === null ? "—" : `${sig(s.tauOverPeriod)} (τ = ${duration(s.radiativeTimeSeconds)})`);
   setText("in-range", windowWords(s) ?? "no window set");
   setText("residual", s.energyBalanceResidual === null ? "—" : s.energyBalanceResidual.toExponential(1));
-  setText("period", `${fmt(s.periodSeconds / DAY_S, 2)} d`);
-  const cycle = cycleWords(s.periodSeconds, s.cycleSeconds);
-  setText("cycle", cycle === "of the orbit" ? "one orbit" : `${sig(s.cycleSeconds / s.periodSeconds, 3)} orbits (the spin–orbit resonance repeats)`);
-  const solar = s.solarDaySeconds;
-  $("solar-day-row").hidden = solar === undefined;
-  if (solar !== undefined) setText("solar-day", solar === null ? "none (synchronous spin)" : duration(solar));
+  showCycleRows(s);
 }
