@@ -18,7 +18,7 @@ import { buildThermalModel, type ColumnModel, type SlabModel, type ThermalModel 
 import { REGIME_TABLE, type RegimeEntry } from "../src/model/regimes.js";
 import type { ThermalCase } from "../src/model/thermalCase.js";
 import { ConductanceExchange, type ConductanceLink } from "../src/physics/conductance.js";
-import { lumpedForcing, type Forcing } from "../src/physics/forcing.js";
+import { lumpedForcing, scaledForcing, type Forcing } from "../src/physics/forcing.js";
 import { eccentricAnomaly } from "../src/physics/kepler.js";
 import { columnCycle, DEFAULT_COLUMN_TOLERANCE } from "../src/run/columnCycle.js";
 import type { ConvergedCycle } from "../src/run/cycle.js";
@@ -78,7 +78,7 @@ function row(cells: Layout): RegimeEntry {
         cells: cells.shares.map((share, i): { name: string; areaWeight: number; forcing: Forcing } => ({
           name: `cell${i}`,
           areaWeight: cells.weights[i]!,
-          forcing: { absorbedAt: (E) => share * full.absorbedAt(E), meanAbsorbedWPerM2: share * full.meanAbsorbedWPerM2 },
+          forcing: scaledForcing(full, share),
         })),
         cycleOrbits: 1,
         commensurate: true,

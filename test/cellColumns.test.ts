@@ -9,16 +9,12 @@ import { CalorbitError } from "../src/errors.js";
 import type { RegimeEntry, Regime } from "../src/model/regimes.js";
 import type { ColumnSpec } from "../src/model/heatStore.js";
 import { DEFAULT_GRID } from "../src/physics/column.js";
-import { lumpedForcing, type Forcing } from "../src/physics/forcing.js";
+import { lumpedForcing, scaledForcing } from "../src/physics/forcing.js";
 import { nominalCase } from "./helpers.js";
 
 /** Shares of the global (f = 1/4) forcing, and the cells' area weights. */
 const SHARES = [1, 0.5, 0.1] as const;
 const WEIGHTS = [0.5, 0.3, 0.2] as const;
-
-function scaled(forcing: Forcing, factor: number): Forcing {
-  return { absorbedAt: (E) => factor * forcing.absorbedAt(E), meanAbsorbedWPerM2: factor * forcing.meanAbsorbedWPerM2 };
-}
 
 const SHADES: RegimeEntry = {
   words: "test only: three cells under the global forcing times 1, 0.5 and 0.1, no exchange",
@@ -30,7 +26,7 @@ const SHADES: RegimeEntry = {
   surface: (t) => {
     const full = lumpedForcing("global", t.surface.albedo, t.star.luminosityW, t.orbit);
     return {
-      cells: SHARES.map((share, i) => ({ name: `shade${i}`, areaWeight: WEIGHTS[i]!, forcing: scaled(full, share) })),
+      cells: SHARES.map((share, i) => ({ name: `shade${i}`, areaWeight: WEIGHTS[i]!, forcing: scaledForcing(full, share) })),
       cycleOrbits: 1,
       commensurate: true,
       forcingHasCorners: false,

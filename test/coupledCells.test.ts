@@ -8,7 +8,7 @@ import { describe, expect, it, vi } from "vitest";
 import { STEFAN_BOLTZMANN } from "../src/constants.js";
 import type { RegimeEntry, Regime } from "../src/model/regimes.js";
 import type { ConductanceLink } from "../src/physics/conductance.js";
-import { lumpedForcing, type Forcing } from "../src/physics/forcing.js";
+import { lumpedForcing, NO_FORCING, scaledForcing } from "../src/physics/forcing.js";
 import { nominalCase } from "./helpers.js";
 
 /** What the test row builds: each cell's share of a lumped forcing and area weight, and the links. */
@@ -19,7 +19,6 @@ const setup = {
   links: [] as ConductanceLink[],
 };
 
-const dark: Forcing = { absorbedAt: () => 0, meanAbsorbedWPerM2: 0 };
 
 const CELLS: RegimeEntry = {
   words: "test only: slab cells linked by conductances",
@@ -34,7 +33,7 @@ const CELLS: RegimeEntry = {
       cells: setup.shares.map((share, i) => ({
         name: `cell${i}`,
         areaWeight: setup.weights[i]!,
-        forcing: share === 0 ? dark : { absorbedAt: (E: number) => share * full.absorbedAt(E), meanAbsorbedWPerM2: share * full.meanAbsorbedWPerM2 },
+        forcing: share === 0 ? NO_FORCING : scaledForcing(full, share),
       })),
       cycleOrbits: 1,
       commensurate: true,

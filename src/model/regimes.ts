@@ -7,7 +7,7 @@
  */
 import { CalorbitError, requireNumber } from "../errors.js";
 import { DAYSIDE_FACTOR } from "../physics/dayNight.js";
-import { bandForcing, lumpedForcing, pointForcing, type Forcing } from "../physics/forcing.js";
+import { bandForcing, lumpedForcing, NO_FORCING, pointForcing, scaledForcing } from "../physics/forcing.js";
 import { solarDaySeconds } from "../physics/geometry.js";
 import { meanMotion } from "../physics/orbit.js";
 import type { Exchange } from "./exchange.js";
@@ -70,10 +70,6 @@ function spinCycle(spinRate: number, n: number, ratio?: { spin: number; orbit: n
   return { orbits: 1, commensurate: false };
 }
 
-function scaled(forcing: Forcing, factor: number): Forcing {
-  return { absorbedAt: (E) => factor * forcing.absorbedAt(E), meanAbsorbedWPerM2: factor * forcing.meanAbsorbedWPerM2 };
-}
-const DARK: Forcing = { absorbedAt: () => 0, meanAbsorbedWPerM2: 0 };
 
 function wholeBody(name: "global" | "dayside" | "substellar", words: string, menuLabel: string, colour: string): RegimeEntry {
   return {
@@ -104,8 +100,8 @@ export const REGIME_TABLE: Readonly<Record<Regime, RegimeEntry>> = {
       const full = lumpedForcing("substellar", t.surface.albedo, t.star.luminosityW, t.orbit); // (1 − A) S
       return {
         cells: [
-          { name: "day", areaWeight: 0.5, forcing: scaled(full, DAYSIDE_FACTOR[weighting]) },
-          { name: "night", areaWeight: 0.5, forcing: DARK },
+          { name: "day", areaWeight: 0.5, forcing: scaledForcing(full, DAYSIDE_FACTOR[weighting]) },
+          { name: "night", areaWeight: 0.5, forcing: NO_FORCING },
         ],
         cycleOrbits: 1,
         commensurate: true,

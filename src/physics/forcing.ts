@@ -23,6 +23,14 @@ export interface Forcing {
   readonly meanAbsorbedWPerM2: number;
 }
 
+/** A forcing times a constant factor (a share of the light, a dayside weighting). */
+export function scaledForcing(forcing: Forcing, factor: number): Forcing {
+  return { absorbedAt: (E) => factor * forcing.absorbedAt(E), meanAbsorbedWPerM2: factor * forcing.meanAbsorbedWPerM2 };
+}
+
+/** No starlight at all (a night hemisphere). */
+export const NO_FORCING: Forcing = { absorbedAt: () => 0, meanAbsorbedWPerM2: 0 };
+
 /**
  * Whole-body lumped forcing: f(1 − A) L / (4π a² (1 − e cos E)²).
  * Its orbit mean is f(1 − A) L / (4π a² √(1 − e²)) (Williams & Pollard 2002, eq. 3).
