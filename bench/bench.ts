@@ -298,14 +298,15 @@ for (const [days, targetS] of [
     // the peer's solve with its dense output (the peer needs it for its statistics). The summary-only
     // ratio is shown beside it. The peer is the less accurate of the two (measured: its RK45 at rtol
     // 1e-10 leaves its minimum 5e-9 from the reference, calorbit's default run is within 5e-11), so
-    // the ratio, if anything, favours the peer.
+    // the ratio, if anything, favours the peer. The figure asked for is the ratio itself; its target
+    // only says calorbit must not be the slower of the two (an earlier ">= 100x" had no source).
     const ratio = (answer.seconds * 1000) / seriesMs;
     figure(
       "scipy peer",
       fmt(ratio),
       "x slower than calorbit's default call",
-      ">= 100x",
-      ratio >= 100,
+      "> 1x",
+      ratio > 1,
       `solve_ivp ${(answer.seconds * 1000).toFixed(1)} ms, calorbit ${seriesMs.toFixed(3)} ms with the 1000-sample series (${fmt((answer.seconds * 1000) / slabMs)}x its summary-only ${slabMs.toFixed(3)} ms), same slab case`,
     );
   }
