@@ -128,6 +128,8 @@ describe("reports of a zonal run", () => {
     expect(text).toContain("Periodic climate from a cold start");
     expect(text).toContain("keep different climates");
     expect(text).toMatch(/latitude\s+mean\s+min\s+max/);
+    // The spin axis is described once (it was printed twice after zonal became a row of the regimes table).
+    expect(text.match(/^ {2}axis {6}obliquity/gm)).toHaveLength(1);
   });
 });
 

@@ -77,7 +77,7 @@ function climateText(c: ZonalClimate, window: ZonalSummary["habitableWindow"]): 
       : "  ice edge           none (the albedo has no ice)",
     `  habitable          ${fixed(100 * s.habitableFraction, 2)} % of area × time within ${fixed(window.lowK, 2)}–${fixed(window.highK, 2)} K`,
     `  energy   absorbed ${fixed(s.meanAbsorbedWPerM2, 3)} W m⁻², emitted ${fixed(s.meanEmittedWPerM2, 3)} W m⁻², residual ${s.energyBalanceResidual.toExponential(1)}`,
-    `  solver   ${c.solver.method}, ${c.solver.stepsPerOrbit} steps per orbit, ${c.solver.newtonIterations} Newton iterations, ${c.solver.orbitsIntegrated} orbits + ${c.solver.spinUpOrbits} coarse orbits + ${c.solver.linearisedOrbits} linearised, periodicity ${c.solver.periodicityResidualK.toExponential(1)} K, orbit-map radius ${fixed(c.solver.monodromyRadius, 3)}`,
+    `  solver   ${c.solver.method}, ${c.solver.stepsPerOrbit} steps per orbit, ${c.solver.newtonIterations} Newton ${c.solver.newtonIterations === 1 ? "iteration" : "iterations"}, ${c.solver.orbitsIntegrated} orbits + ${c.solver.spinUpOrbits} coarse orbits + ${c.solver.linearisedOrbits} linearised, periodicity ${c.solver.periodicityResidualK.toExponential(1)} K, orbit-map radius ${fixed(c.solver.monodromyRadius, 3)}`,
     `  ${"latitude".padStart(9)}${"mean".padStart(10)}${"min".padStart(10)}${"max".padStart(10)}`,
   ];
   for (const b of tableRows(s.bands)) {
@@ -89,9 +89,8 @@ function climateText(c: ZonalClimate, window: ZonalSummary["habitableWindow"]): 
 
 export function zonalText(resolved: ResolvedScenario, sim: ZonalSimulation, climate: ClimateSettings): string {
   const described = describeScenario(resolved).filter((l) => !l.startsWith("  regime"));
+  // The axis line comes with the described scenario: the zonal row of the regimes table reads spin.axis.
   const lines: string[] = [`calorbit ${VERSION} — ${resolved.thermal.name}`, ...described, ...climateLines(climate), ""];
-  const spin = resolved.thermal.spin;
-  lines.splice(lines.length - 1, 0, `  axis      obliquity ${sig(degrees(spin?.obliquityRad ?? 0))}°, equinox at true anomaly ${sig(degrees(spin?.equinoxTrueAnomalyRad ?? 0))}°`);
   for (const c of sim.climates) lines.push(...climateText(c, c.summary.habitableWindow), "");
   if (sim.startsAgree === true) lines.push("The warm and the cold start reach the same climate.", "");
   if (sim.startsAgree === false) lines.push("The warm and the cold start keep different climates: the planet has two.", "");
