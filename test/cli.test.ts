@@ -298,6 +298,7 @@ describe("a conduction column from the CLI", async () => {
     expect(text.status).toBe(0);
     expect(text.stdout).toContain("Depth profile");
     expect(text.stdout).toMatch(/skin depth\s+diurnal [\d.]+ m, orbital [\d.]+ m/);
+    expect(text.stdout).toMatch(/≤ tolerance 1e-6\)$/m); // the column's own default
     const doc = JSON.parse((await calorbit("run", path, "--json")).stdout);
     expect(doc.summary.temperature.minK).toBeLessThan(doc.summary.temperature.maxK);
     expect(doc.summary.depthProfile.length).toBeGreaterThan(10);
@@ -311,6 +312,18 @@ describe("a conduction column from the CLI", async () => {
     await calorbit("run", path, "--csv", out, "--samples", "30");
     const header = readFileSync(out, "utf8").split("\n").find((l) => !l.startsWith("#"))!;
     expect(header).toBe("time_s,orbit_phase,true_anomaly_deg,distance_au,stellar_flux_W_m2,absorbed_flux_W_m2,temperature_K,equilibrium_K,temperature_at_0.01m_K,temperature_at_0.05m_K,temperature_at_0.3m_K");
+  });
+
+  it("keeps an explicit --tolerance 1e-8 (the slab's default value) as asked, and refuses --tolerance for the zonal climate", async () => {
+    // It was taken for "not given" and silently replaced by the column's 1e-6.
+    const tight = await calorbit("run", join(SCENARIOS, "sarvek-regolith.yaml"), "--tolerance", "1e-8");
+    expect(tight.status).toBe(0);
+    expect(tight.stdout).toMatch(/periodicity residual (\S+) ≤ tolerance 1e-8\)$/m);
+    const residual = Number(/periodicity residual (\S+) ≤/.exec(tight.stdout)![1]);
+    expect(residual).toBeLessThanOrEqual(1e-8);
+    const zonal = await calorbit("run", join(SCENARIOS, "vaelor-zonal.yaml"), "--tolerance", "1e-6");
+    expect(zonal.status).toBe(2);
+    expect(zonal.stderr).toMatch(/^calorbit: --tolerance: given "1e-6"; allowed: none for the zonal climate/);
   });
 
   it("rejects a column given with a heat capacity, and a sweep or comparison of a column case says why", async () => {

@@ -155,12 +155,12 @@ export function summaryText(resolved: ResolvedScenario, sim: Simulation, options
   }
   if (solver.integrator === "crank-nicolson") {
     lines.push(
-      `  solver   Crank–Nicolson, ${solver.stepsPerCycle} steps per cycle, ${solver.iterations} cycles to the periodic state, ${solver.orbitsIntegrated} orbits integrated (periodicity residual ${(solver.periodicityResidual ?? NaN).toExponential(1)} ≤ tolerance ${solver.requestedTolerance})`,
+      `  solver   Crank–Nicolson, ${solver.stepsPerCycle} steps per cycle, ${solver.iterations} cycles to the periodic state, ${solver.orbitsIntegrated} orbits integrated (periodicity residual ${(solver.periodicityResidual ?? NaN).toExponential(1)} ≤ tolerance ${solver.requestedTolerance.toExponential()})`,
     );
   } else {
     const shooting = solver.mode === "periodic" ? `${solver.iterations} shooting iterations, ` : "";
     lines.push(
-      `  solver   ${solver.integrator}, ${shooting}${solver.orbitsIntegrated} orbits integrated, ${solver.steps} steps, ${solver.evaluations} evaluations, tolerance ${solver.requestedTolerance}`,
+      `  solver   ${solver.integrator}, ${shooting}${solver.orbitsIntegrated} orbits integrated, ${solver.steps} steps, ${solver.evaluations} evaluations, tolerance ${solver.requestedTolerance.toExponential()}`,
     );
   }
   if (s.depthProfile) {

@@ -7,6 +7,7 @@
  * refuses an exchange there), so the columns are independent and the cost is linear in the cells.
  */
 import { anomaliesUniformInTime } from "../analysis/orbitSampling.js";
+import { DEFAULT_COLUMN_TOLERANCE } from "../defaults.js";
 import { CalorbitError, requireNumber } from "../errors.js";
 import type { ColumnModel } from "../model/build.js";
 import type { ThermalCase } from "../model/thermalCase.js";
@@ -17,7 +18,7 @@ import type { ConvergedCycle, CycleRequest } from "./cycle.js";
 
 const TWO_PI = 2 * Math.PI;
 /** A column's default tolerance on its periodicity and energy closure (its steps are second order). */
-export const DEFAULT_COLUMN_TOLERANCE = 1e-6;
+export { DEFAULT_COLUMN_TOLERANCE };
 
 /**
  * The column tolerance for a command's tolerance setting: the column default when the slab default

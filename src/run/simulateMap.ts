@@ -4,6 +4,7 @@
  * forward integration until the start is forgotten, whose last orbit is reported (and named so).
  */
 import { STEFAN_BOLTZMANN } from "../constants.js";
+import { MAP_DEFAULT_TOLERANCE } from "../defaults.js";
 import { CalorbitError, requireNumber } from "../errors.js";
 import type { MapHistory } from "../analysis/phaseCurve.js";
 import { eccentricAnomaly, trueAnomalyFromEccentric } from "../physics/kepler.js";
@@ -14,8 +15,7 @@ import { chooseIntegrator, integrateCycle, plainOdeTolerance, solvePeriodic } fr
 import { addWork, emptyWork, type SolverWork } from "../solve/system.js";
 
 const TWO_PI = 2 * Math.PI;
-/** Default relative tolerance of a map: the phase curve needs far less than a single point's 1e-8. */
-export const MAP_DEFAULT_TOLERANCE = 1e-6;
+export { MAP_DEFAULT_TOLERANCE };
 export const MAP_DEFAULT_SAMPLES = 1000;
 /** Largest q of a p:q cycle a map will shoot over; beyond it the map is integrated forward. */
 const MAX_CYCLE_ORBITS = 16;

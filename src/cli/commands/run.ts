@@ -1,6 +1,6 @@
 /** `calorbit run`: one scenario to its periodic steady state (or a transient), as text, JSON, CSV, SVG. */
 import type { Command } from "commander";
-import { DEFAULT_RELATIVE_TOLERANCE, DEFAULT_SAMPLES, INTEGRATORS } from "../../defaults.js";
+import { DEFAULT_COLUMN_TOLERANCE, DEFAULT_RELATIVE_TOLERANCE, DEFAULT_SAMPLES, INTEGRATORS, MAP_DEFAULT_TOLERANCE } from "../../defaults.js";
 import type { SimulateOptions } from "../../run/simulate.js";
 import type { ResolvedScenario } from "../../scenario/resolve.js";
 import { integerFlag, integratorFlag, quantityFlag, toleranceFlag, usage } from "../flags.js";
@@ -16,17 +16,17 @@ interface RunFlags {
   samples: string;
   from?: string;
   orbits?: string;
-  tolerance: string;
+  tolerance?: string;
   mapCsv?: string;
   mapAt?: string;
   celsius?: boolean;
 }
 
 async function runCommand(scenarioPath: string | undefined, flags: RunFlags): Promise<void> {
-  const options: SimulateOptions = {
-    relativeTolerance: toleranceFlag(flags.tolerance),
-    samples: integerFlag("--samples", flags.samples, 2, 10_000_000),
-  };
+  const options: SimulateOptions = { samples: integerFlag("--samples", flags.samples, 2, 10_000_000) };
+  // Left out unless given, so each heat store and the map take their own default (a column's 1e-6
+  // is not the slab's 1e-8, and an explicit 1e-8 must stay 1e-8).
+  if (flags.tolerance !== undefined) options.relativeTolerance = toleranceFlag(flags.tolerance);
   if (flags.celsius && flags.json) throw usage("--celsius", "with --json", "--celsius only with the text report (JSON keeps kelvin: minK, maxK …)");
   if (flags.series && !flags.json) throw usage("--series", "without --json", "--series only with --json (it adds the series to the JSON document; for a table use --csv FILE)");
   refuseClobber("run", [scenarioPath], [["--csv", flags.csv], ["--svg", flags.svg]]);
@@ -41,7 +41,7 @@ async function runCommand(scenarioPath: string | undefined, flags: RunFlags): Pr
     if (!(options.transient.startK > 0)) throw usage("--from", JSON.stringify(flags.from), "a temperature > 0 K");
   }
   // Loaded here, not at start-up: the scenario reader, the solvers and the writers.
-  const [{ loadScenario, writeFileAtomic }, { columnToleranceFor, simulate }, { longCycleNote }, { heatStoreOf }, { REGIME_TABLE }, { seriesCsv }, { resultDocument }, { temperatureSvg }, { summaryText }, { resultWarnings }] =
+  const [{ loadScenario, writeFileAtomic }, { simulate }, { longCycleNote }, { heatStoreOf }, { REGIME_TABLE }, { seriesCsv }, { resultDocument }, { temperatureSvg }, { summaryText }, { resultWarnings }] =
     await Promise.all([
       import("../io.js"),
       import("../../run/simulate.js"),
@@ -71,7 +71,7 @@ async function runCommand(scenarioPath: string | undefined, flags: RunFlags): Pr
       await runMap(resolved, file, {
         ...flags,
         samples: options.samples ?? DEFAULT_SAMPLES,
-        tolerance: flags.tolerance === String(DEFAULT_RELATIVE_TOLERANCE) ? null : options.relativeTolerance!,
+        tolerance: options.relativeTolerance ?? null,
       });
       return;
     }
@@ -84,8 +84,6 @@ async function runCommand(scenarioPath: string | undefined, flags: RunFlags): Pr
   if (heatStoreOf(resolved.thermal).kind === "column") {
     if (options.transient) throw usage("--from", JSON.stringify(flags.from ?? ""), "no transient mode for a conduction column yet (it runs to its periodic state)");
     if (integrator !== undefined) throw usage("--integrator", JSON.stringify(integrator), "none for a conduction column (its own Crank–Nicolson stepper solves it)");
-    // The column's periodicity and energy tolerance: 1e-6 unless --tolerance says otherwise.
-    options.relativeTolerance = columnToleranceFor(options.relativeTolerance!, DEFAULT_RELATIVE_TOLERANCE);
   }
   const note = longCycleNote(resolved.thermal);
   if (note !== undefined) err(`calorbit: note: ${note}\n`);
@@ -112,6 +110,7 @@ async function runZonal(
 ): Promise<void> {
   if (options.transient) throw usage("--from", JSON.stringify(flags.from ?? ""), "no transient mode for the zonal climate (it runs to its periodic climates from a warm and/or a cold start)");
   if (options.integrator) throw usage("--integrator", JSON.stringify(flags.integrator), "none for the zonal climate (it has its own implicit stepper)");
+  if (flags.tolerance !== undefined) throw usage("--tolerance", JSON.stringify(flags.tolerance), "none for the zonal climate (its periodic solve has its own convergence test, in kelvin)");
   const [{ simulateZonal, zonalCaseOf }, { zonalCsv, zonalDocument, zonalProfileSvg, zonalText }] = await Promise.all([
     import("../../run/zonal.js"),
     import("../../report/zonalReport.js"),
@@ -145,7 +144,7 @@ export function registerRun(program: Command): void {
     .option("--celsius", "text report: the temperatures in °C as well as K")
     .option("--from <temperature>", "transient mode: start at this temperature (e.g. 150K, -20degC)")
     .option("--orbits <n>", "transient mode: number of orbits to integrate (default 1)")
-    .option("--tolerance <x>", "relative tolerance of the temperatures (a conduction column: 1e-6 unless given)", String(DEFAULT_RELATIVE_TOLERANCE))
+    .option("--tolerance <x>", `relative tolerance of the temperatures (default: ${DEFAULT_RELATIVE_TOLERANCE.toExponential()} for a slab, ${DEFAULT_COLUMN_TOLERANCE.toExponential()} for a conduction column, ${MAP_DEFAULT_TOLERANCE.toExponential()} for a map)`)
     .option("--map-csv <file>", "map regime: write the surface temperature map at one moment (--map-at) as CSV")
     .option("--map-at <time>", "map regime: the moment of the map in --map-csv and --svg (e.g. 2.5d; default: the phase curve's maximum)")
     .option("--integrator <name>", `force an integrator, e.g. odex to cross-check a result (${INTEGRATORS.join(", ")}; default: chosen by stiffness)`)
