@@ -9,11 +9,33 @@
  * and the emitted flux equal to it at the periodic state.
  */
 import { fileURLToPath } from "node:url";
-import { cellRadiance, phaseCurve, phaseCurveSummary } from "../src/analysis/phaseCurve.js";
+import { bandTable, phaseCurve, phaseCurveSummary } from "../src/analysis/phaseCurve.js";
 import { SOLAR_RADIUS_M, STEFAN_BOLTZMANN } from "../src/constants.js";
-import { BandRadiance } from "../src/physics/planck.js";
+import { BandRadiance, bandRadianceDirect, type Passband } from "../src/physics/planck.js";
 import { keplerPeriodSeconds } from "../src/physics/orbit.js";
 import { simulateMap, type MapCase } from "../src/run/simulateMap.js";
+import type { MapHistory, PhaseCurveSeries } from "../src/analysis/phaseCurve.js";
+
+/**
+ * The planet's own flux ratio at sample s made the slow way: Planck's law integrated over the band
+ * by quadrature at every visible cell's temperature (no table), the observer taken from the curve's
+ * sub-observer point. The reference the fast phase curve is checked against.
+ */
+function directFluxRatio(history: MapHistory, curve: PhaseCurveSeries, s: number, band: Passband, rp: number, rs: number, starK: number): number {
+  const { grid } = history;
+  const cells = grid.longitudes * grid.latitudes;
+  const lon = curve.subObserverLongitudeRad[s]!;
+  const lat = curve.subObserverLatitudeRad[s]!;
+  const ox = Math.cos(lat) * Math.cos(lon);
+  const oy = Math.cos(lat) * Math.sin(lon);
+  const oz = Math.sin(lat);
+  let sum = 0;
+  for (let k = 0; k < cells; k++) {
+    const mu = grid.normalX[k]! * ox + grid.normalY[k]! * oy + grid.normalZ[k]! * oz;
+    if (mu > 0) sum += bandRadianceDirect(band, history.temperatureK[s * cells + k]!) * mu * grid.areaFraction[k]!;
+  }
+  return (4 * rp * rp * sum) / (rs * rs * bandRadianceDirect(band, starK));
+}
 
 export interface Figure {
   name: string;
@@ -62,9 +84,9 @@ export function mapFigures(): { figures: Figure[]; wrong: string[] } {
   if (!(Math.abs(sim.energy.residual) < 1e-7)) wrong.push(`map energy residual ${sim.energy.residual}`);
   const first = phaseCurveSummary(sim.history, curve);
 
-  const radiance = cellRadiance(sim.history, telescope.band);
+  const table = bandTable(sim.history, telescope.band);
   const t1 = performance.now();
-  const tilted = phaseCurve(sim.history, { ...telescope, observer: { ...telescope.observer, inclinationRad: (60 * Math.PI) / 180 } }, radiance);
+  const tilted = phaseCurve(sim.history, { ...telescope, observer: { ...telescope.observer, inclinationRad: (60 * Math.PI) / 180 } }, table);
   const inclinationMs = performance.now() - t1;
   const tiltedMax = phaseCurveSummary(sim.history, tilted).maxFluxRatio;
   if (!(tiltedMax > 0 && tiltedMax < first.maxFluxRatio)) wrong.push(`map: a less inclined orbit should see a lower maximum (${tiltedMax} against ${first.maxFluxRatio})`);
@@ -86,6 +108,13 @@ export function mapFigures(): { figures: Figure[]; wrong: string[] } {
     const t2 = performance.now();
     const curve = phaseCurve(sim.history, { ...telescope, band: new BandRadiance({ kind: "tophat", fromM: fromUm * 1e-6, toM: toUm * 1e-6 }) });
     passbandTimes.push(performance.now() - t2);
+    // Checked (outside the timing) at three samples against Planck's law integrated cell by cell.
+    const band: Passband = { kind: "tophat", fromM: fromUm * 1e-6, toM: toUm * 1e-6 };
+    for (const s of [0, 333, 667]) {
+      const direct = directFluxRatio(sim.history, curve, s, band, telescope.planetRadiusM, starRadius, starTemperature);
+      const error = Math.abs(curve.planetOnlyFluxRatio[s]! / direct - 1);
+      if (!(error < 2e-6)) wrong.push(`map: the ${fromUm}–${toUm} µm flux ratio at sample ${s} is ${curve.planetOnlyFluxRatio[s]} against ${direct} by direct quadrature (relative ${error.toExponential(2)})`);
+    }
     const max = phaseCurveSummary(sim.history, curve).maxFluxRatio;
     // The planet/star contrast grows toward longer wavelengths (the planet's Planck curve peaks far redder than the star's).
     if (toUm > 5 && !(max > first.maxFluxRatio)) wrong.push(`map: the planet/star contrast in ${fromUm}–${toUm} µm (${max}) should exceed the 4–5 µm one (${first.maxFluxRatio})`);

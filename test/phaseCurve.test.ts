@@ -259,16 +259,49 @@ describe("map regime beside a published measurement (a comparison, not a fit)", 
 });
 
 describe("the phase curve's band radiances", () => {
-  it("interpolate every cell of a map to 1e-6 of the passband's own table", async () => {
-    const { cellRadiance } = await import("../src/analysis/phaseCurve.js");
+  it("read every cell of a map from the map's band table to 1e-6 of the passband's own table", async () => {
+    const { bandTable, tableRadiance } = await import("../src/analysis/phaseCurve.js");
     const sim = simulateMap(mapCase({ e: 0.5, heatCapacity: 3e6, longitudes: 12, latitudes: 6 }), { samples: 40 });
-    const band = new BandRadiance({ kind: "tophat", fromM: 4e-6, toM: 5e-6 });
-    const fast = cellRadiance(sim.history, band);
-    let worst = 0;
-    sim.history.temperatureK.forEach((t, i) => {
-      const direct = band.at(t);
-      if (direct > 1e-12 * band.at(2000)) worst = Math.max(worst, Math.abs(fast[i]! / direct - 1));
-    });
-    expect(worst).toBeLessThan(1e-6);
+    for (const [fromM, toM] of [[4e-6, 5e-6], [2e-6, 2.5e-6], [15e-6, 20e-6]] as const) {
+      const band = new BandRadiance({ kind: "tophat", fromM, toM });
+      const table = bandTable(sim.history, band);
+      let worst = 0;
+      sim.history.temperatureK.forEach((t) => {
+        const direct = band.at(t);
+        if (direct > 1e-12 * band.at(2000)) worst = Math.max(worst, Math.abs(tableRadiance(table, t) / direct - 1));
+      });
+      expect(worst).toBeLessThan(1e-6);
+    }
+  });
+
+  it("sum each sample's visible disc to 2e-6 of the same sum made with direct quadrature of Planck's law per cell", () => {
+    // Independent of both tables: Σ_k B_band(T_k) μ_k ΔA_k with B_band by Gauss–Legendre quadrature
+    // at each cell's own temperature, the observer direction taken from the curve's sub-observer point.
+    const c = mapCase({ e: 0.5, heatCapacity: 3e6, longitudes: 12, latitudes: 6 });
+    const sim = simulateMap(c, { samples: 24 });
+    const { grid, temperatureK } = sim.history;
+    const cells = grid.longitudes * grid.latitudes;
+    const observer: Observer = { inclinationRad: 70 * DEG, argumentOfPeriastronRad: 120 * DEG, longitudeOfNodeRad: 0 };
+    const rp = 1e8;
+    for (const [fromM, toM] of [[2e-6, 2.5e-6], [4e-6, 5e-6], [8e-6, 14e-6]] as const) {
+      const band = new BandRadiance({ kind: "tophat", fromM, toM });
+      const telescope = { observer, band, planetRadiusM: rp, starRadiusM: SOLAR_RADIUS_M, starTemperatureK: sunTemperature };
+      const curve = phaseCurve(sim.history, telescope);
+      const starDirect = bandRadianceDirect(band.band, sunTemperature);
+      let worst = 0;
+      for (let s = 0; s < curve.fluxRatio.length; s++) {
+        const lon = curve.subObserverLongitudeRad[s]!;
+        const lat = curve.subObserverLatitudeRad[s]!;
+        const o = [Math.cos(lat) * Math.cos(lon), Math.cos(lat) * Math.sin(lon), Math.sin(lat)];
+        let sum = 0;
+        for (let k = 0; k < cells; k++) {
+          const mu = grid.normalX[k]! * o[0]! + grid.normalY[k]! * o[1]! + grid.normalZ[k]! * o[2]!;
+          if (mu > 0) sum += bandRadianceDirect(band.band, temperatureK[s * cells + k]!) * mu * grid.areaFraction[k]!;
+        }
+        const direct = (4 * rp * rp * sum) / (SOLAR_RADIUS_M * SOLAR_RADIUS_M * starDirect);
+        worst = Math.max(worst, Math.abs(curve.planetOnlyFluxRatio[s]! / direct - 1));
+      }
+      expect(worst).toBeLessThan(2e-6);
+    }
   });
 });

@@ -69,34 +69,49 @@ function observerInEquatorialFrame(frame: CellFrame, observer: Observer): { ra: 
   return { ra: Math.atan2(yEq, x), dec: Math.asin(Math.max(-1, Math.min(1, zEq))) };
 }
 
-/** Points of the temperature-uniform table `cellRadiance` builds for one map (cubic interpolation in T). */
+/** Points of the temperature-uniform table `bandTable` builds for one map (cubic interpolation in T). */
 const UNIFORM_TABLE_POINTS = 4096;
 
 /**
- * Band radiance of every cell at every sample, W m⁻² sr⁻¹ (computed once per passband). A map
- * evaluates the band hundreds of thousands of times over a narrow range of temperatures, so the
- * passband's ln-T table is resampled once on a grid uniform in T over that range and read with
- * cubic (Catmull–Rom) interpolation: no logarithm or exponential per cell.
+ * A passband's radiance over one map's temperature range, W m⁻² sr⁻¹, on a grid uniform in T read
+ * with cubic (Catmull–Rom) interpolation: no logarithm or exponential per cell. `values[j]` is the
+ * band radiance at `startK + j / inversePerK`; one guard point each side of the map's range.
  */
-export function cellRadiance(history: MapHistory, band: BandRadiance): Float64Array {
-  const t = history.temperatureK;
-  const out = new Float64Array(t.length);
-  positiveRange(t);
-  const { lo, hi } = range;
+export interface BandTable {
+  band: BandRadiance;
+  startK: number;
+  inversePerK: number;
+  values: Float64Array;
+}
+
+/**
+ * The band table for a map history, built once per passband: the passband's ln-T table resampled
+ * at 4,096 temperatures spanning the history's positive temperatures. A map evaluates the band
+ * hundreds of thousands of times over that narrow range; the table costs 4,096 look-ups.
+ */
+export function bandTable(history: MapHistory, band: BandRadiance): BandTable {
+  let known = rangeCache.get(history);
+  if (!known) {
+    positiveRange(history.temperatureK);
+    known = { lo: range.lo, hi: range.hi };
+    rangeCache.set(history, known);
+  }
+  let { lo, hi } = known;
   if (!(hi > lo)) {
-    for (let i = 0; i < t.length; i++) out[i] = band.at(t[i]!);
-    return out;
+    // one temperature (or none above 0 K): any small span around it interpolates exactly enough
+    const middle = hi > 0 ? hi : 1;
+    lo = 0.999 * middle;
+    hi = 1.001 * middle;
   }
   const n = UNIFORM_TABLE_POINTS;
   const step = (hi - lo) / (n - 3);
-  const start = lo - step; // one guard point each side for the cubic's outer neighbours
-  const table = new Float64Array(n);
-  for (let j = 0; j < n; j++) table[j] = band.at(Math.max(start + j * step, 0));
-  interpolateUniform(t, table, start, 1 / step, out);
-  return out;
+  const startK = lo - step;
+  const values = new Float64Array(n);
+  for (let j = 0; j < n; j++) values[j] = band.at(Math.max(startK + j * step, 0));
+  return { band, startK, inversePerK: 1 / step, values };
 }
 
-/** The smallest and largest positive value of t, into `range` (its own function, like the loop below). */
+/** The smallest and largest positive value of t, into `range` (its own function, like the loops below). */
 function positiveRange(t: Float64Array): void {
   let lo = Infinity;
   let hi = -Infinity;
@@ -111,45 +126,56 @@ function positiveRange(t: Float64Array): void {
   range.hi = hi;
 }
 const range = { lo: 0, hi: 0 };
+/** Each history's temperature range, scanned once (a new passband needs only the range, not another pass over every cell). */
+const rangeCache = new WeakMap<MapHistory, { lo: number; hi: number }>();
 
 /**
- * out[i] = the Catmull–Rom cubic through `table` (uniform in T from `start`, spacing 1/inverse) at
- * t[i], 0 where t[i] ≤ 0. Its own function so that the JIT optimises this loop on its first call.
+ * The Catmull–Rom cubic through `values` (uniform in T from `startK`, spacing 1/inversePerK) at
+ * temperatureK, 0 at T ≤ 0; a temperature outside the table reads the end interval's cubic.
  */
-function interpolateUniform(t: Float64Array, table: Float64Array, start: number, inverse: number, out: Float64Array): void {
-  const last = table.length - 3;
-  for (let i = 0; i < t.length; i++) {
-    const v = t[i]!;
-    const u = (v - start) * inverse;
-    let j = u | 0; // u ≥ 1 for every v ≥ lo; smaller or non-finite only where v ≤ 0
-    if (!(j >= 1)) j = 1;
-    else if (j > last) j = last;
-    const s = u - j;
-    const p0 = table[j - 1]!;
-    const p1 = table[j]!;
-    const p2 = table[j + 1]!;
-    const p3 = table[j + 2]!;
-    const y = p1 + 0.5 * s * (p2 - p0 + s * (2 * p0 - 5 * p1 + 4 * p2 - p3 + s * (3 * (p1 - p2) + p3 - p0)));
-    out[i] = v > 0 ? y : 0;
-  }
+function interpolate(values: Float64Array, startK: number, inversePerK: number, temperatureK: number): number {
+  const u = (temperatureK - startK) * inversePerK;
+  let j = u | 0; // u ≥ 1 inside the map's range; smaller or non-finite only where T ≤ 0
+  const last = values.length - 3;
+  if (!(j >= 1)) j = 1;
+  else if (j > last) j = last;
+  const s = u - j;
+  const p0 = values[j - 1]!;
+  const p1 = values[j]!;
+  const p2 = values[j + 1]!;
+  const p3 = values[j + 2]!;
+  const y = p1 + 0.5 * s * (p2 - p0 + s * (2 * p0 - 5 * p1 + 4 * p2 - p3 + s * (3 * (p1 - p2) + p3 - p0)));
+  return temperatureK > 0 ? y : 0;
 }
 
-/** The last band radiances computed for each map history (the viewer's sliders ask for the same band again and again). */
-const radianceCache = new WeakMap<MapHistory, { band: BandRadiance; radiance: Float64Array }>();
-
-/** `cellRadiance`, remembered per history for its last passband. */
-function cachedRadiance(history: MapHistory, band: BandRadiance): Float64Array {
-  const hit = radianceCache.get(history);
-  if (hit && hit.band === band) return hit.radiance;
-  const radiance = cellRadiance(history, band);
-  radianceCache.set(history, { band, radiance });
-  return radiance;
+/** The band radiance of one temperature read from a band table, W m⁻² sr⁻¹ (for checks; the phase curve inlines it). */
+export function tableRadiance(table: BandTable, temperatureK: number): number {
+  return interpolate(table.values, table.startK, table.inversePerK, temperatureK);
 }
 
-/** Σ radiance[base + k] μ_k ΔA_k over the cells facing the observer (μ_k > 0); leaves Σ μ_k ΔA_k in `visible.projected`. */
+/** The last band table built for each map history (the viewer's sliders ask for the same band again and again). */
+const tableCache = new WeakMap<MapHistory, BandTable>();
+
+/** `bandTable`, remembered per history for its last passband. */
+function cachedTable(history: MapHistory, band: BandRadiance): BandTable {
+  const hit = tableCache.get(history);
+  if (hit && hit.band === band) return hit;
+  const table = bandTable(history, band);
+  tableCache.set(history, table);
+  return table;
+}
+
+/**
+ * Σ I(T_k) μ_k ΔA_k over the cells facing the observer (μ_k > 0) at one sample, the band radiance
+ * read from the table only for those cells; leaves Σ μ_k ΔA_k in `visible.projected`. Called once
+ * per sample, so the JIT optimises it within the first phase curve.
+ */
 function visibleSum(
-  radiance: Float64Array,
+  temperatureK: Float64Array,
   base: number,
+  values: Float64Array,
+  startK: number,
+  inversePerK: number,
   normalX: Float64Array,
   normalY: Float64Array,
   normalZ: Float64Array,
@@ -164,7 +190,7 @@ function visibleSum(
     const mu = normalX[k]! * ox + normalY[k]! * oy + normalZ[k]! * oz;
     if (mu > 0) {
       const w = mu * areaFraction[k]!;
-      sum += radiance[base + k]! * w;
+      sum += interpolate(values, startK, inversePerK, temperatureK[base + k]!) * w;
       projected += w;
     }
   }
@@ -174,11 +200,11 @@ function visibleSum(
 const visible = { projected: 0 };
 
 /**
- * The phase curve for one observer and passband. `radiance` may be passed in (from
- * `cellRadiance`); by default the last one computed for this history and this `BandRadiance` object
- * is reused, so a new inclination (same band object) recomputes no band radiance.
+ * The phase curve for one observer and passband. `table` may be passed in (from `bandTable`); by
+ * default the last one built for this history and this `BandRadiance` object is reused, so a new
+ * inclination (same band object) builds no table.
  */
-export function phaseCurve(history: MapHistory, telescope: Telescope, radiance = cachedRadiance(history, telescope.band)): PhaseCurveSeries {
+export function phaseCurve(history: MapHistory, telescope: Telescope, table = cachedTable(history, telescope.band)): PhaseCurveSeries {
   const { grid, orbit, frame } = history;
   const count = history.timeSeconds.length;
   const cells = grid.longitudes * grid.latitudes;
@@ -200,13 +226,15 @@ export function phaseCurve(history: MapHistory, telescope: Telescope, radiance =
     brightnessTemperatureK: new Float64Array(count),
   };
   const { normalX, normalY, normalZ, areaFraction } = grid;
+  const { values, startK, inversePerK } = table;
+  const temperatureK = history.temperatureK;
   let guessK: number | undefined;
   for (let s = 0; s < count; s++) {
     const sinceperiastron = history.meanAnomalyRad[s]! / n;
     const lon = ra - alphaAtPeriastron - frame.rateRadPerSecond * sinceperiastron;
     const ox = cosDec * Math.cos(lon);
     const oy = cosDec * Math.sin(lon);
-    const sum = visibleSum(radiance, s * cells, normalX, normalY, normalZ, areaFraction, ox, oy, sinDec);
+    const sum = visibleSum(temperatureK, s * cells, values, startK, inversePerK, normalX, normalY, normalZ, areaFraction, ox, oy, sinDec);
     const projected = visible.projected;
     const own = sum * fluxScale;
     const { separationM, towardObserverM } = skyOffset(observer, history.trueAnomalyRad[s]!, history.distanceM[s]!);
