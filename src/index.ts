@@ -15,6 +15,7 @@ export * from "./physics/energyBalance.js";
 export { solvePeriodic, integrateCycle, type PeriodicProblem, type PeriodicResult, type IntegratorName } from "./solve/periodic.js";
 export type { OdeSystem, SolverWork } from "./solve/system.js";
 export { simulate, DEFAULT_RELATIVE_TOLERANCE, DEFAULT_SAMPLES, type Simulation, type Series, type SimulateOptions, type SolverReport } from "./run/simulate.js";
+export type { ProgressHook, ProgressStage } from "./run/progress.js";
 export type { CycleSummary, TemperatureStats } from "./analysis/summarise.js";
 export { resolveScenario, type ResolvedScenario } from "./scenario/resolve.js";
 export { parseScenarioText } from "./scenario/text.js";

@@ -15,10 +15,13 @@ import { buildColumnGrid, skinDepthM, specificHeatAt, thermalInertia } from "../
 import { timeAtEccentric } from "../physics/orbit.js";
 import { solveColumnPeriodic } from "../solve/columnSolver.js";
 import type { ConvergedCycle, CycleRequest } from "./cycle.js";
+import { estimatedShare } from "./progress.js";
 
 const TWO_PI = 2 * Math.PI;
 /** A column's default tolerance on its periodicity and energy closure (its steps are second order). */
 export { DEFAULT_COLUMN_TOLERANCE };
+/** Cycles a column typically steps to its periodic state, for the progress estimate only (the bench column: 8-9). */
+const TYPICAL_COLUMN_CYCLES = 9;
 
 /**
  * The column tolerance for a command's tolerance setting: the column default when the slab default
@@ -57,8 +60,11 @@ export function columnCycle(thermal: ThermalCase, model: ColumnModel, request: C
   // Cells that exchange no heat: one column under each, solved on its own (the same grid and steps,
   // so the step grids coincide); the first cell's column gives the depth extras.
   const cellCount = model.stateNames.length;
-  const results = model.stateNames.map((_, i) =>
-    solveColumnPeriodic(
+  const progress = request.progress?.active ? request.progress : undefined;
+  const onCycle = progress ? (cycles: number) => progress.report(estimatedShare(cycles, TYPICAL_COLUMN_CYCLES), "column") : undefined;
+  const results = model.stateNames.map((_, i) => {
+    progress?.part(i / cellCount, 1 / cellCount);
+    return solveColumnPeriodic(
       {
         properties: p,
         grid,
@@ -71,10 +77,11 @@ export function columnCycle(thermal: ThermalCase, model: ColumnModel, request: C
         stepsPerCycle,
         initialK: tRef,
         shortSkinDepthM: shortSkin,
+        ...(onCycle ? { onCycle } : {}),
       },
       rtol,
-    ),
-  );
+    );
+  });
   const result = results[0]!;
 
   // Statistics on the step grid (uniform in E). dT/dE: the harmonic mean of the two one-sided

@@ -7,6 +7,7 @@ import type { DepthRow } from "../analysis/summarise.js";
 import type { AnomalyTrig } from "../analysis/orbitSampling.js";
 import type { IntegratorName } from "../solve/periodic.js";
 import type { PeriodicMethod } from "../solve/periodicKrylov.js";
+import type { ProgressMeter } from "./progress.js";
 
 export interface SolverReport {
   /** periodic: the exact cycle; seasonal: a non-commensurate spin, integrated orbit after orbit until the start is forgotten; transient: as asked. */
@@ -39,6 +40,8 @@ export interface CycleRequest {
   transient?: { startK: number; orbits: number };
   /** Periodic solve of coupled slab cells (a cross-check); default by the state's size (`choosePeriodicMethod`). */
   periodicMethod?: PeriodicMethod;
+  /** Where the solve is, reported at coarse points (after a cycle, an orbit, a column); `simulate` ends it. */
+  progress?: ProgressMeter;
 }
 
 /** The column's extras: depth profile, skin depths, layer temperatures over the cycle. */

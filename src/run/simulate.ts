@@ -16,8 +16,10 @@ import type { ColumnCycleExtras, ConvergedCycle, CycleRequest, SolverReport } fr
 import { isDark, slabCycle } from "./slabCycle.js";
 import { PERIODIC_METHODS, type PeriodicMethod } from "../solve/periodicKrylov.js";
 import { checkWorkload, explainStepLimit } from "./workload.js";
+import { ProgressMeter, type ProgressHook, type ProgressStage } from "./progress.js";
 import { refuseDarkness } from "../scenario/physical.js";
 
+export type { ProgressHook, ProgressStage };
 export { DEFAULT_RELATIVE_TOLERANCE, DEFAULT_SAMPLES, INTEGRATORS, type IntegratorName, type SolverReport, columnToleranceFor, DEFAULT_COLUMN_TOLERANCE };
 
 export interface SimulateOptions {
@@ -40,6 +42,11 @@ export interface SimulateOptions {
    * or "newton-krylov" (matrix-free, ~n per product); by default chosen by the number of cells. A cross-check.
    */
   periodicMethod?: PeriodicMethod;
+  /**
+   * Called as the solve goes with the share done (rising, 1 at the end) and the stage: after each
+   * cycle of the shooting, each orbit of a seasonal spin-up, each cycle of a column. Never inside a step.
+   */
+  onProgress?: ProgressHook;
 }
 
 /** One cell's history (a surface, a hemisphere, a band). */
@@ -99,7 +106,11 @@ export function simulate(thermal: ThermalCase, options: SimulateOptions = {}): S
     requireNumber("from", options.transient.startK, (t) => t > 0, "a temperature > 0 K");
     requireNumber("orbits", options.transient.orbits, (k) => Number.isInteger(k) && k >= 1 && k <= 100_000, "an integer from 1 to 100,000");
   }
+  if (options.onProgress !== undefined && typeof options.onProgress !== "function") {
+    throw new CalorbitError("INVALID_ARGUMENT", "onProgress is not a function", [{ path: "onProgress", given: describeValue(options.onProgress), allowed: "a function (fraction, stage) => void, or nothing" }]);
+  }
   const { orbit } = thermal;
+  const progress = new ProgressMeter(options.onProgress);
   const request: CycleRequest = {
     relativeTolerance: rtol,
     startE: eccentricAnomaly(orbit.meanAnomalyAtStartRad, orbit.eccentricity),
@@ -112,6 +123,7 @@ export function simulate(thermal: ThermalCase, options: SimulateOptions = {}): S
     ...(options.integrator ? { integrator: options.integrator } : {}),
     ...(options.transient ? { transient: options.transient } : {}),
     ...(options.periodicMethod ? { periodicMethod: options.periodicMethod } : {}),
+    progress,
   };
   checkWorkload(thermal, model, options.transient !== undefined);
   if (!options.transient) refuseDarkness(thermal, model.surface);
@@ -128,7 +140,9 @@ export function simulate(thermal: ThermalCase, options: SimulateOptions = {}): S
   } catch (error) {
     throw explainStepLimit(error, thermal, model, rtol);
   }
-  return finish(thermal, model, cycle);
+  const simulation = finish(thermal, model, cycle);
+  progress.finish(model.kind === "column" ? "column" : cycle.solver.mode);
+  return simulation;
 }
 
 function finish(thermal: ThermalCase, model: ThermalModel, cycle: ConvergedCycle): Simulation {

@@ -13,6 +13,7 @@ import { LumpedBalance } from "../physics/energyBalance.js";
 import { CellBudget, cellForcing, lonLatGrid, MapIllumination, StarInCellFrame, type CellFrame, type MapBody, type MapSurface } from "../physics/surfaceGrid.js";
 import { chooseIntegrator, integrateCycle, plainOdeTolerance, solvePeriodic } from "../solve/periodic.js";
 import { addWork, emptyWork, type SolverWork } from "../solve/system.js";
+import { ProgressMeter, type ProgressHook } from "./progress.js";
 
 const TWO_PI = 2 * Math.PI;
 export { MAP_DEFAULT_TOLERANCE };
@@ -37,6 +38,8 @@ export interface MapOptions {
   relativeTolerance?: number;
   /** Samples of the reported orbit(s), uniform in time, both ends included. */
   samples?: number;
+  /** Called as the cells are solved, with the share done (rising, 1 at the end) and the stage "map". */
+  onProgress?: ProgressHook;
 }
 
 export interface MapSimulation {
@@ -185,7 +188,9 @@ export function simulateMap(c: MapCase, options: MapOptions = {}): MapSimulation
   // and its mirror across the equator see the same sunlight: solve the northern rows and copy.
   const mirrored = Math.abs(Math.sin(frame.obliquityRad)) < 1e-15;
   const { longitudes, latitudes } = grid;
+  const progress = new ProgressMeter(options.onProgress);
   for (let k = 0; k < cells; k++) {
+    progress.report(k / cells, "map");
     const area = grid.areaFraction[k]!;
     const row = Math.floor(k / longitudes);
     if (mirrored && row < latitudes - 1 - row) {
@@ -285,6 +290,7 @@ export function simulateMap(c: MapCase, options: MapOptions = {}): MapSimulation
     }
   }
   for (let k = 0; k < cells; k++) cellMeanK[k] = cellMeanK[k]! / (sampleCount - 1);
+  progress.finish("map");
   return {
     history,
     mode,

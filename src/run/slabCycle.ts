@@ -14,6 +14,7 @@ import { switchPoints } from "../solve/corners.js";
 import { chooseCellsIntegrator, choosePeriodicMethod, solvePeriodicKrylov } from "../solve/periodicKrylov.js";
 import { addWork, emptyWork, type SolverWork } from "../solve/system.js";
 import type { ConvergedCycle, CycleRequest, SolverReport } from "./cycle.js";
+import { estimatedShare, type ProgressMeter } from "./progress.js";
 
 const TWO_PI = 2 * Math.PI;
 /** Step caps of one orbit's integration: a runaway guard, raised for a point that sees many sunrises. */
@@ -23,6 +24,13 @@ const STEPS_PER_SOLAR_DAY = 500;
 const MOST_DENSE_CELLS = 100;
 /** A non-commensurate spin: the most orbits integrated to forget the start. */
 const MAX_SEASONAL_ORBITS = 2000;
+/**
+ * Cycles a periodic solve typically integrates, for its progress estimate only: dense shooting
+ * 3 (the 1:1000 bench point and the demos take 2-4 passes), Newton–Krylov ~20 counting its
+ * linearised cycles (50 coupled cells: 22).
+ */
+const TYPICAL_SHOOTING_CYCLES = 3;
+const TYPICAL_KRYLOV_CYCLES = 20;
 
 export function slabCycle(thermal: ThermalCase, model: SlabModel, request: CycleRequest): ConvergedCycle {
   const { orbit } = thermal;
@@ -58,7 +66,9 @@ export function slabCycle(thermal: ThermalCase, model: SlabModel, request: Cycle
     let residual = 0;
     let odeTol = 0;
     let integrator: IntegratorName | undefined;
+    const cellCount = model.independentCells.length;
     model.independentCells.forEach((system, i) => {
+      request.progress?.part(i / cellCount, 1 / cellCount);
       // A cell that nothing heats (a night side with no exchange and no internal flux) has the
       // periodic state 0 K: radiative cooling alone only approaches it, so it is set, not shot.
       if (isDark(model, i)) {
@@ -78,7 +88,7 @@ export function slabCycle(thermal: ThermalCase, model: SlabModel, request: Cycle
           ...breakpointsOf(model, startE, [i]),
           memoryEstimate: -Math.expm1((-model.cycleOrbits * orbit.periodSeconds) / model.radiativeTimeSeconds),
         },
-        { relativeTolerance: rtol, samples: one, ...(request.integrator ? { integrator: request.integrator } : {}) },
+        { relativeTolerance: rtol, samples: one, ...(request.integrator ? { integrator: request.integrator } : {}), ...onCycle(request.progress, TYPICAL_SHOOTING_CYCLES) },
       );
       for (let k = 0; k < xs.length; k++) grids.dense.ys[k * n + i] = one.ys[k]!;
       addWork(work, result.work);
@@ -117,7 +127,12 @@ export function slabCycle(thermal: ThermalCase, model: SlabModel, request: Cycle
           ? slowestMemory(model, y0, orbit.periodSeconds)
           : -Math.expm1((-model.cycleOrbits * orbit.periodSeconds) / model.radiativeTimeSeconds),
       },
-      { relativeTolerance: rtol, samples: grids.dense, ...(request.integrator ? { integrator: request.integrator } : {}) },
+      {
+        relativeTolerance: rtol,
+        samples: grids.dense,
+        ...(request.integrator ? { integrator: request.integrator } : {}),
+        ...onCycle(request.progress, krylov ? TYPICAL_KRYLOV_CYCLES : TYPICAL_SHOOTING_CYCLES),
+      },
     );
     addWork(work, result.work);
     const solver = report("periodic", result.integrator, rtol, result.odeRelativeTolerance, result.iterations, result.cyclesIntegrated * model.cycleOrbits, result.periodicityResidual, work);
@@ -143,6 +158,7 @@ export function slabCycle(thermal: ThermalCase, model: SlabModel, request: Cycle
       const ys = new Float64Array(shifted.length * n);
       addWork(work, integrateCycle(model.system, integrator, from, from + TWO_PI, y, odeTol, scale, { xs: shifted, ys, components: n }, maxStepsPerOrbit));
       orbitsIntegrated++;
+      request.progress?.report(orbitsIntegrated / (spinUpOrbits + beat), "seasonal");
       const t0 = Float64Array.from({ length: shifted.length }, (_, k) => ys[k * n]!);
       const dtdE = Float64Array.from(shifted, (E) => model.timePerAnomaly(E));
       const mean = timeMean(t0, dtdE);
@@ -163,6 +179,12 @@ export function slabCycle(thermal: ThermalCase, model: SlabModel, request: Cycle
   const cycle = converged(model, grids, solver, elapsedSeconds);
   if (mode === "seasonal") cycle.seasonal = { orbits: beat, orbitMeanK: orbitMeanSpread(model, cycle.statsE, cycle.statsY, beat) };
   return cycle;
+}
+
+/** The shooting's per-cycle report as a share of its typical count; nothing (no closure) without a listener. */
+function onCycle(progress: ProgressMeter | undefined, typical: number): { onCycle?: (cycles: number) => void } {
+  if (progress === undefined || !progress.active) return {};
+  return { onCycle: (cycles) => progress.report(estimatedShare(cycles, typical), "periodic") };
 }
 
 /**

@@ -19,11 +19,19 @@ import { eccentricAnomaly } from "../physics/kepler.js";
 import { checkOrbit, meanMotion, type Orbit } from "../physics/orbit.js";
 import { solveZonalPeriodic } from "../solve/zonalPeriodic.js";
 import { ZonalStepper, type CycleRecord, type StepGrid, type ZonalSystem } from "../solve/zonalStepper.js";
+import { estimatedShare, ProgressMeter, type ProgressHook } from "./progress.js";
 
 /** Default habitable window, K: liquid water at one bar (Spiegel et al. 2008's measure uses 273–373 K). */
 const HABITABLE_WINDOW_K = { lowK: ZERO_CELSIUS_K, highK: ZERO_CELSIUS_K + 100 };
 /** Two starts reach the same climate when no band's time mean differs by more than this, K. */
 const SAME_CLIMATE_K = 0.01;
+/** Fine-orbit equivalents a start typically takes to its periodic climate, for the progress estimate only (measured: see progress.test.ts). */
+const TYPICAL_ZONAL_ORBITS = 40;
+
+export interface ZonalOptions {
+  /** Called as the orbits are integrated, with the share done (rising, 1 at the end) and the stage "zonal". */
+  onProgress?: ProgressHook;
+}
 
 export interface ZonalCase {
   luminosityW: number;
@@ -123,7 +131,7 @@ function prepare(input: ZonalCase): Prepared {
 }
 
 /** Solves the case from the start(s) its settings ask for. */
-export function simulateZonal(input: ZonalCase): ZonalSimulation {
+export function simulateZonal(input: ZonalCase, options: ZonalOptions = {}): ZonalSimulation {
   const { system, albedo, bandAlbedo } = prepare(input);
   const n = system.grid.count;
   const window = input.windowK ? { lowK: input.windowK[0], highK: input.windowK[1] } : HABITABLE_WINDOW_K;
@@ -133,10 +141,13 @@ export function simulateZonal(input: ZonalCase): ZonalSimulation {
   };
   const climates: ZonalClimate[] = [];
   let steps: StepGrid | null = null;
-  for (const start of starts) {
+  const progress = new ProgressMeter(options.onProgress);
+  const onOrbit = progress.active ? (orbits: number) => progress.report(estimatedShare(orbits, TYPICAL_ZONAL_ORBITS), "zonal") : undefined;
+  for (const [index, start] of starts.entries()) {
+    progress.part(index / starts.length, 1 / starts.length);
     const stepper = new ZonalStepper(system);
     const initial = new Float64Array(n).fill(start === "warm" ? WARM_START_K : COLD_START_K);
-    const result = solveZonalPeriodic(stepper, initial, iced, { stepsPerOrbit: input.climate.stepsPerOrbit });
+    const result = solveZonalPeriodic(stepper, initial, iced, { stepsPerOrbit: input.climate.stepsPerOrbit, ...(onOrbit ? { onOrbit } : {}) });
     steps = result.grid;
     const summary = zonalSummary({
       grid: system.grid,
@@ -172,6 +183,7 @@ export function simulateZonal(input: ZonalCase): ZonalSimulation {
     startsAgree = warm.summary.bands.every((b, j) => Math.abs(b.temperature.meanK - cold.summary.bands[j]!.temperature.meanK) <= SAME_CLIMATE_K);
     if (startsAgree) climates.pop();
   }
+  progress.finish("zonal");
   return { grid: system.grid, steps: steps!, climates, startsAgree, startE: system.startE };
 }
 

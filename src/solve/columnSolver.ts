@@ -37,6 +37,8 @@ export interface ColumnProblem {
   shortSkinDepthM: number;
   /** Cap on the cycles run towards the periodic state (default 400); reaching it is an error. */
   maxCycles?: number;
+  /** Called after each whole cycle stepped, with the count so far (progress; never inside a cycle). */
+  onCycle?: (cycles: number) => void;
 }
 
 export interface ColumnResult {
@@ -209,6 +211,7 @@ export function solveColumnPeriodic(problem: ColumnProblem, relativeTolerance: n
     const imbalance = meanAbsorbed + q - meanEmitted;
     lastPeriodicity = periodicity;
     lastResidual = imbalance / meanAbsorbed;
+    problem.onCycle?.(cycle);
     if (periodicity <= relativeTolerance && Math.abs(lastResidual) <= relativeTolerance) {
       return {
         stepE,

@@ -90,6 +90,8 @@ export interface PeriodicOptions {
   integrator?: IntegratorName;
   /** Dense output of the state on the converged cycle. */
   samples?: DenseSamples;
+  /** Called after each whole cycle integrated, with the count so far (progress; never inside a cycle). */
+  onCycle?: (cycles: number) => void;
 }
 
 export interface PeriodicResult {
@@ -362,6 +364,7 @@ export function solvePeriodic(problem: PeriodicProblem, options: PeriodicOptions
       integrateCycle(augmented, integrator, from, to, y, passTolerance, scale, sampleThisPass ? samples : undefined, problem.maxStepsPerCycle, problem.breakpoints),
     );
     cycles++;
+    options.onCycle?.(cycles);
     let residual = 0;
     let minContraction = 1;
     for (let i = 0; i < n; i++) {

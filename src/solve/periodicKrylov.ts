@@ -172,6 +172,7 @@ export function solvePeriodicKrylov(problem: PeriodicProblem, options: PeriodicO
     }
     addWork(work, integrateCycle(directional, integrator, from, to, augmented, productTolerance, scale2, undefined, problem.maxStepsPerCycle, problem.breakpoints));
     cycles++;
+    options.onCycle?.(cycles);
     for (let i = 0; i < n; i++) out[i] = augmented[n + i]! / c - v[i]!;
   };
 
@@ -183,6 +184,7 @@ export function solvePeriodicKrylov(problem: PeriodicProblem, options: PeriodicO
       integrateCycle(base, integrator, from, to, y, passTolerance, scale, finalPass ? options.samples : undefined, problem.maxStepsPerCycle, problem.breakpoints),
     );
     cycles++;
+    options.onCycle?.(cycles);
     residual = 0;
     for (let i = 0; i < n; i++) {
       g[i] = y[i]! - y0[i]!;

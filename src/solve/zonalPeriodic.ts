@@ -31,6 +31,11 @@ export interface ZonalPeriodicOptions {
   maxOrbits?: number;
   /** Cap on spin-up orbits on the coarse grid (default 2000). */
   maxSpinUpOrbits?: number;
+  /**
+   * Called after each orbit integrated (coarse, fine or linearised; never inside one) with the work
+   * so far in fine-orbit equivalents: a coarse orbit counts its share of the fine steps (progress).
+   */
+  onOrbit?: (fineOrbits: number) => void;
 }
 
 export interface ZonalPeriodicResult {
@@ -71,6 +76,9 @@ export function solveZonalPeriodic(stepper: ZonalStepper, initial: Float64Array,
 
   const t0 = Float64Array.from(initial);
   let spinUpOrbits = 0;
+  const coarseShare = coarse.steps / fine.steps;
+  const onOrbit = options.onOrbit;
+  const tick = (): void => onOrbit?.((spinUpOrbits + coarseOrbits) * coarseShare + orbits + linearOrbits);
   const coarseRecord = cycleRecord(n, coarse.steps);
   const patternBefore = new Uint8Array(n);
   const patternAfter = new Uint8Array(n);
@@ -85,6 +93,7 @@ export function solveZonalPeriodic(stepper: ZonalStepper, initial: Float64Array,
     for (let c = 0; c < limit && spinUpOrbits < maxSpin; c++) {
       const end = stepper.cycle(coarse, t0, coarseRecord);
       spinUpOrbits++;
+      tick();
       let change = 0;
       for (let j = 0; j < n; j++) change = Math.max(change, Math.abs(end[j]! - t0[j]!));
       t0.set(end);
@@ -115,6 +124,7 @@ export function solveZonalPeriodic(stepper: ZonalStepper, initial: Float64Array,
       const end = stepper.cycle(grid, start, record);
       if (isFine) orbits++;
       else coarseOrbits++;
+      tick();
       let largest = 0;
       for (let j = 0; j < n; j++) {
         out[j] = end[j]! - start[j]!;
@@ -133,6 +143,7 @@ export function solveZonalPeriodic(stepper: ZonalStepper, initial: Float64Array,
     const jacobianMinusIdentity = (v: Float64Array, out: Float64Array): void => {
       stepper.linearCycle(grid, accepted, v, out);
       linearOrbits++;
+      tick();
       for (let j = 0; j < n; j++) out[j] = out[j]! - v[j]!;
     };
     let residual = evaluate(t0, accepted, g);
@@ -185,6 +196,7 @@ export function solveZonalPeriodic(stepper: ZonalStepper, initial: Float64Array,
     const radius = spectralRadius(n, (v, out) => {
       stepper.linearCycle(fine, record, v, out);
       linearOrbits++;
+      tick();
     });
     if (radius < 1) {
       return {
