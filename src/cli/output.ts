@@ -9,11 +9,14 @@ export interface OutputStreams {
   out(text: string): void;
   /** Errors, warnings and progress (stderr). */
   err(text: string): void;
+  /** True when stderr is a terminal (progress lines are drawn only there); absent: not a terminal. */
+  errIsTerminal?(): boolean;
 }
 
 export const processStreams: OutputStreams = {
   out: (text) => void process.stdout.write(text),
   err: (text) => void process.stderr.write(text),
+  errIsTerminal: () => process.stderr.isTTY === true,
 };
 
 let current: OutputStreams = processStreams;
@@ -26,6 +29,11 @@ export function out(text: string): void {
 /** Writes a message to the current stderr. */
 export function err(text: string): void {
   current.err(text);
+}
+
+/** True when the current stderr is a terminal (logs, pipes and CI are not). */
+export function errIsTerminal(): boolean {
+  return current.errIsTerminal?.() === true;
 }
 
 /** One warning line on stderr: `calorbit: warning: …`. */

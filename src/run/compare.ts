@@ -8,6 +8,7 @@ import { heatStoreOf } from "../model/heatStore.js";
 import type { Regime, ThermalCase } from "../model/thermalCase.js";
 import { simulate, type Simulation, type SimulateOptions } from "./simulate.js";
 import { buildThermalModel, gcd } from "../model/build.js";
+import { ProgressMeter } from "./progress.js";
 
 /** One state's temperature and equilibrium on the shared time axis. */
 export interface CompareColumn {
@@ -49,10 +50,17 @@ export function compareRegimes(thermal: ThermalCase, regimes: readonly Regime[],
   const spanOrbits = cycles.reduce((l, c) => (l * c) / gcd(l, c), 1);
   // N − 1 intervals on the shared axis must split evenly into every regime's own cycle.
   const intervals = Math.max(spanOrbits, Math.round((options.samples - 1) / spanOrbits) * spanOrbits);
+  // Each regime's run is its share of the whole comparison's progress.
+  const progress = new ProgressMeter(options.onProgress);
   const rows: CompareRow[] = regimes.map((regime, r) => {
     const repeats = spanOrbits / cycles[r]!;
+    progress.part(r / regimes.length, 1 / regimes.length);
+    const { onProgress: _whole, ...rest } = options;
     try {
-      const simulation = simulate({ ...thermal, regime }, { ...options, samples: intervals / repeats + 1 });
+      const simulation = simulate(
+        { ...thermal, regime },
+        { ...rest, samples: intervals / repeats + 1, ...(progress.active ? { onProgress: (f, stage) => progress.report(f, stage) } : {}) },
+      );
       const columns = simulation.series.states.map((st) => ({
         name: simulation.series.states.length > 1 ? `${regime}_${st.name}` : regime,
         temperatureK: tile(st.temperatureK, repeats),
@@ -65,6 +73,7 @@ export function compareRegimes(thermal: ThermalCase, regimes: readonly Regime[],
       throw err;
     }
   });
+  progress.finish(rows.find((row) => row.simulation)?.simulation!.solver.mode ?? "periodic");
   const timeSeconds = Float64Array.from({ length: intervals + 1 }, (_, j) => (spanOrbits * thermal.orbit.periodSeconds * j) / intervals);
   return { rows, timeSeconds, spanOrbits };
 }

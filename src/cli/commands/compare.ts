@@ -6,6 +6,7 @@ import { CalorbitError } from "../../errors.js";
 import { integerFlag, toleranceFlag, usage } from "../flags.js";
 import { refuseClobber } from "../outputPaths.js";
 import { out, warn } from "../output.js";
+import { withProgressLine } from "../progressLine.js";
 
 interface CompareFlags {
   regimes: string;
@@ -13,6 +14,7 @@ interface CompareFlags {
   csv?: string;
   samples: string;
   tolerance: string;
+  quiet?: boolean;
 }
 
 async function compareCommand(scenarioPath: string | undefined, flags: CompareFlags): Promise<void> {
@@ -35,7 +37,9 @@ async function compareCommand(scenarioPath: string | undefined, flags: CompareFl
     import("../../report/compareReport.js"),
   ]);
   const { resolved } = loadScenario(scenarioPath);
-  const comparison = compareRegimes(resolved.thermal, regimes as Regime[], { samples, relativeTolerance });
+  const comparison = withProgressLine("compare", flags.quiet, (onProgress) =>
+    compareRegimes(resolved.thermal, regimes as Regime[], { samples, relativeTolerance, ...(onProgress ? { onProgress } : {}) }),
+  );
   const failed = comparison.rows.filter((row) => row.error !== undefined);
   const noneRan = failed.length === comparison.rows.length;
   // With no regime to show, no CSV is written; the report still says, per regime, why.
@@ -65,6 +69,7 @@ export function registerCompare(program: Command): void {
     .option("--csv <file>", "write T and T_eq of every regime on a shared time axis")
     .option("--samples <n>", "points on the shared time axis", String(DEFAULT_SAMPLES))
     .option("--tolerance <x>", "relative tolerance of the temperatures", String(DEFAULT_RELATIVE_TOLERANCE))
+    .option("--quiet", "no progress line on stderr (it is drawn only on a terminal, and only for work that lasts over a second)")
     .addHelpText(
       "after",
       `

@@ -29,7 +29,7 @@ export function registerFit(program: Command): void {
     .option("--workers <n>", "worker threads for the posterior (default: the number of cores)")
     .option("--view", "then open the fit in the browser viewer (data, best fit, residuals, parameters, posterior pair plot) until Ctrl-C")
     .option("--port <n>", "with --view: the viewer's port on 127.0.0.1 (0: a free one)", "0")
-    .option("--quiet", "no progress")
+    .option("--quiet", "no progress line on stderr (it is drawn only on a terminal, and only for work that lasts over a second)")
     .addHelpText(
       "after",
       `

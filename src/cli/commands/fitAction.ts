@@ -23,6 +23,7 @@ import { chainHeader, chainRows, initialWalkers, parseChain, summarisePosterior,
 import { fitDocument, fitText, residualCsv } from "../../fit/report.js";
 import { fitSvg } from "../../fit/svg.js";
 import { loadScenarioDocument, writeFileAtomic } from "../io.js";
+import { progressLine } from "../progressLine.js";
 import { integerFlag, usage } from "../flags.js";
 import { err, out } from "../output.js";
 
@@ -138,7 +139,7 @@ export async function fitCommand(scenarioPath: string, flags: FitFlags): Promise
   let posterior: PosteriorSummary | undefined;
   let chainSteps: SavedChain["steps"] | undefined;
   if (steps > 0) {
-    chainSteps = await samplePosterior(flags.chain!, settings, observations, fit.sigmaUsed, fit.values, fit.estimates.map((e) => e.sigma), { steps, walkers, seed, workers: workerCount, quiet: flags.quiet === true || flags.json === true });
+    chainSteps = await samplePosterior(flags.chain!, settings, observations, fit.sigmaUsed, fit.values, fit.estimates.map((e) => e.sigma), { steps, walkers, seed, workers: workerCount, quiet: flags.quiet === true });
     posterior = summarisePosterior(chainSteps, parameters, Math.min(burnIn, chainSteps.length - 1));
   }
   const title = String((scenario as { name?: unknown }).name ?? scenarioPath);
@@ -246,6 +247,7 @@ async function samplePosterior(
     fd = openSync(chainPath, "a");
   }
   const pool = new LogPosteriorPool(run.workers, settings, observations, sigma);
+  const line = progressLine("fit", { quiet: run.quiet });
   try {
     let state: EnsembleState;
     if (done === 0) {
@@ -257,7 +259,6 @@ async function samplePosterior(
       state = { positions: last.positions.map((x) => Float64Array.from(x)), logProbability: [...last.logProbability] };
     }
     const steps = saved.steps;
-    const progressEvery = Math.max(1, Math.floor(run.steps / 20));
     await runEnsemble(state, (points) => pool.evaluate(points), {
       steps: run.steps,
       seed: run.seed,
@@ -265,12 +266,12 @@ async function samplePosterior(
       onStep: (step, s) => {
         writeSync(fd, chainRows(step, s));
         steps.push({ positions: s.positions.map((x) => Float64Array.from(x)), logProbability: [...s.logProbability] });
-        if (!run.quiet && (step + 1) % progressEvery === 0) err(`posterior: step ${step + 1} of ${run.steps}\r`);
+        line.update((step + 1) / run.steps, `posterior step ${step + 1} of ${run.steps}`);
       },
     });
-    if (!run.quiet) err("\n");
     return steps.slice(0, run.steps);
   } finally {
+    line.close();
     closeSync(fd);
     await pool.close();
   }

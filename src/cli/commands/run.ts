@@ -6,6 +6,7 @@ import type { ResolvedScenario } from "../../scenario/resolve.js";
 import { integerFlag, integratorFlag, quantityFlag, toleranceFlag, usage } from "../flags.js";
 import { refuseClobber } from "../outputPaths.js";
 import { err, out, warn } from "../output.js";
+import { withProgressLine } from "../progressLine.js";
 
 interface RunFlags {
   integrator?: string;
@@ -20,6 +21,7 @@ interface RunFlags {
   mapCsv?: string;
   mapAt?: string;
   celsius?: boolean;
+  quiet?: boolean;
 }
 
 async function runCommand(scenarioPath: string | undefined, flags: RunFlags): Promise<void> {
@@ -87,7 +89,7 @@ async function runCommand(scenarioPath: string | undefined, flags: RunFlags): Pr
   }
   const note = longCycleNote(resolved.thermal);
   if (note !== undefined) err(`calorbit: note: ${note}\n`);
-  const sim = simulate(resolved.thermal, options);
+  const sim = withProgressLine("run", flags.quiet, (onProgress) => simulate(resolved.thermal, onProgress ? { ...options, onProgress } : options));
   report(resultWarnings(resolved.thermal, sim.summary, { periodic: sim.solver.mode === "periodic", singleState: sim.series.states.length === 1 }));
   if (flags.csv !== undefined) writeFileAtomic(flags.csv, seriesCsv(resolved, sim));
   if (flags.svg !== undefined) writeFileAtomic(flags.svg, temperatureSvg(resolved.thermal.name, sim.series, sim.summary));
@@ -116,7 +118,7 @@ async function runZonal(
     import("../../report/zonalReport.js"),
   ]);
   const zonal = zonalCaseOf(resolved.thermal);
-  const sim = simulateZonal(zonal);
+  const sim = withProgressLine("run", flags.quiet, (onProgress) => simulateZonal(zonal, onProgress ? { onProgress } : {}));
   const climate = resolved.thermal.climate!;
   const samples = options.samples ?? DEFAULT_SAMPLES;
   if (flags.csv !== undefined) writeFileAtomic(flags.csv, zonalCsv(resolved, zonal, sim, samples));
@@ -147,6 +149,7 @@ export function registerRun(program: Command): void {
     .option("--tolerance <x>", `relative tolerance of the temperatures (default: ${DEFAULT_RELATIVE_TOLERANCE.toExponential()} for a slab, ${DEFAULT_COLUMN_TOLERANCE.toExponential()} for a conduction column, ${MAP_DEFAULT_TOLERANCE.toExponential()} for a map)`)
     .option("--map-csv <file>", "map regime: write the surface temperature map at one moment (--map-at) as CSV")
     .option("--map-at <time>", "map regime: the moment of the map in --map-csv and --svg (e.g. 2.5d; default: the phase curve's maximum)")
+    .option("--quiet", "no progress line on stderr (it is drawn only on a terminal, and only for a run that lasts over a second)")
     .option("--integrator <name>", `force an integrator, e.g. odex to cross-check a result (${INTEGRATORS.join(", ")}; default: chosen by stiffness)`)
     .addHelpText(
       "after",

@@ -11,6 +11,7 @@ import { mapText } from "../../report/mapReport.js";
 import { quantityFlag } from "../flags.js";
 import { writeFileAtomic } from "../io.js";
 import { out, warn } from "../output.js";
+import { withProgressLine } from "../progressLine.js";
 
 export interface MapRunFlags {
   json?: boolean;
@@ -22,6 +23,7 @@ export interface MapRunFlags {
   samples: number;
   /** null when the user gave none: the map's own default applies. */
   tolerance: number | null;
+  quiet?: boolean;
 }
 
 /** Reads a passband file named in the scenario (relative to the scenario's folder) into its table. */
@@ -42,7 +44,10 @@ export function readPassband(resolved: ResolvedScenario, scenarioFile: string): 
 }
 
 export function runMap(resolved: ResolvedScenario, scenarioFile: string, flags: MapRunFlags): void {
-  const observed = observeMap(readPassband(resolved, scenarioFile), { relativeTolerance: flags.tolerance ?? MAP_DEFAULT_TOLERANCE, samples: flags.samples });
+  const thermal = readPassband(resolved, scenarioFile);
+  const observed = withProgressLine("run", flags.quiet, (onProgress) =>
+    observeMap(thermal, { relativeTolerance: flags.tolerance ?? MAP_DEFAULT_TOLERANCE, samples: flags.samples, ...(onProgress ? { onProgress } : {}) }),
+  );
   const at = flags.mapAt !== undefined ? quantityFlag("--map-at", "time", flags.mapAt) : (observed.phase?.timeOfMaxSeconds ?? 0);
   const sample = sampleNearest(observed, at);
   // Build every output first, then write: a failure leaves nothing half written.

@@ -4,9 +4,11 @@ import { readFileSync } from "node:fs";
 import { CalorbitError } from "../../errors.js";
 import { integerFlag, usage } from "../flags.js";
 import { out } from "../output.js";
+import { withProgressLine } from "../progressLine.js";
 
 interface ViewFlags {
   port: string;
+  quiet?: boolean;
 }
 
 async function viewCommand(path: string | undefined, flags: ViewFlags): Promise<void> {
@@ -42,18 +44,22 @@ async function viewCommand(path: string | undefined, flags: ViewFlags): Promise<
       case "zonal": {
         const [{ zonalViewDocument }, { simulateZonal, zonalCaseOf }] = await Promise.all([import("../../report/zonalReport.js"), import("../../run/zonal.js")]);
         const zonal = zonalCaseOf(resolved.thermal);
-        resultJson = JSON.stringify(zonalViewDocument(resolved, zonal, simulateZonal(zonal), zonal.climate, 200));
+        const sim = withProgressLine("view", flags.quiet, (onProgress) => simulateZonal(zonal, onProgress ? { onProgress } : {}));
+        resultJson = JSON.stringify(zonalViewDocument(resolved, zonal, sim, zonal.climate, 200));
         break;
       }
       case "map": {
         const [{ mapViewDocument }, { observeMap }, { readPassband }] = await Promise.all([import("../../report/mapReport.js"), import("../../run/observeMap.js"), import("./runMap.js")]);
-        resultJson = JSON.stringify(mapViewDocument(resolved, observeMap(readPassband(resolved, file), { samples: 400 })));
+        const thermal = readPassband(resolved, file);
+        const observed = withProgressLine("view", flags.quiet, (onProgress) => observeMap(thermal, { samples: 400, ...(onProgress ? { onProgress } : {}) }));
+        resultJson = JSON.stringify(mapViewDocument(resolved, observed));
         break;
       }
       case "surface": {
         // One result for every heat store; a column's also carries its depth × time map (its series is
         // interpolated from the column's steps: 400 points are plenty).
-        const sim = simulate(resolved.thermal, { samples: heatStoreOf(resolved.thermal).kind === "column" ? 400 : 2000 });
+        const samples = heatStoreOf(resolved.thermal).kind === "column" ? 400 : 2000;
+        const sim = withProgressLine("view", flags.quiet, (onProgress) => simulate(resolved.thermal, { samples, ...(onProgress ? { onProgress } : {}) }));
         resultJson = JSON.stringify(sim.heatMap ? { kind: "column", ...resultDocument(resolved, sim, true), heatMap: sim.heatMap } : resultDocument(resolved, sim, true));
         break;
       }
@@ -104,6 +110,7 @@ export function registerView(program: Command): void {
     .description("open the interactive viewer in a browser (a local server on 127.0.0.1)")
     .argument("[file]", "a scenario, a result from run --json --series, or a sweep file; the bundled demo when omitted")
     .option("--port <n>", "port to listen on (0: a free one)", "0")
+    .option("--quiet", "no progress line on stderr while the scenario is first solved (drawn only on a terminal, after a second)")
     .addHelpText("after", `\nExamples:\n  calorbit view\n  calorbit view scenarios/korvath-locked.yaml --port 8765`)
     .action((file: string | undefined, flags: ViewFlags) => viewCommand(file, flags));
 }

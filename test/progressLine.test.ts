@@ -1,0 +1,94 @@
+/**
+ * The progress line on stderr: drawn only on a terminal, only after about a second, throttled,
+ * erased at the end; never on stdout, never into a log or a pipe, and not with --quiet. The clock is
+ * the test's own (no test here depends on the machine's speed).
+ */
+import { afterEach, describe, expect, it, vi } from "vitest";
+import { withStreams, type OutputStreams } from "../src/cli/output.js";
+import { progressLine, SHOW_AFTER_MS } from "../src/cli/progressLine.js";
+import { main } from "../dist/src/cli/program.js";
+
+/** Captured streams; `terminal` says whether stderr claims to be a TTY. */
+function streams(terminal: boolean): OutputStreams & { stdout: string; stderr: string } {
+  const s = {
+    stdout: "",
+    stderr: "",
+    out: (text: string) => void (s.stdout += text),
+    err: (text: string) => void (s.stderr += text),
+    errIsTerminal: () => terminal,
+  };
+  return s;
+}
+
+/** ECMA-48: carriage return, then erase to the end of the line (EL, CSI K). */
+const ERASE = "\r\u001b[K";
+
+afterEach(() => vi.restoreAllMocks());
+
+describe("the progress line", () => {
+  it("on a terminal: silent for the first second, then drawn, throttled, and erased at the end", async () => {
+    const s = streams(true);
+    let clock = 0;
+    await withStreams(s, async () => {
+      const line = progressLine("run", { now: () => clock });
+      expect(line.hook).toBeTypeOf("function");
+      clock = SHOW_AFTER_MS - 1;
+      line.hook!(0.3, "periodic"); // under a second: a short run stays silent
+      expect(s.stderr).toBe("");
+      clock = SHOW_AFTER_MS + 200;
+      line.hook!(0.6, "periodic");
+      expect(s.stderr).toBe(`${ERASE}calorbit run: toward the periodic state  60 %  1.2 s`);
+      clock += 50; // within the redraw interval: not drawn
+      line.hook!(0.7, "periodic");
+      expect(s.stderr.split(ERASE)).toHaveLength(2);
+      clock += 100;
+      line.hook!(0.9, "column");
+      expect(s.stderr.endsWith(`${ERASE}calorbit run: conduction column cycles  90 %  1.4 s`)).toBe(true);
+      line.hook!(1, "column"); // the end is not drawn: the line is erased
+      line.close();
+      line.close();
+      expect(s.stderr.endsWith(`s${ERASE}`)).toBe(true);
+      expect(s.stderr.split(ERASE)).toHaveLength(4);
+    });
+    expect(s.stdout).toBe("");
+  });
+
+  it("gives the engine no hook and draws nothing when stderr is not a terminal (a log, a pipe, CI) or with --quiet", async () => {
+    for (const [terminal, quiet] of [
+      [false, false],
+      [true, true],
+    ] as const) {
+      const s = streams(terminal);
+      let clock = 0;
+      await withStreams(s, async () => {
+        const line = progressLine("fit", { quiet, now: () => clock });
+        expect(line.hook).toBeUndefined();
+        clock = 10 * SHOW_AFTER_MS;
+        line.update(0.5, "posterior step 5 of 10");
+        line.close();
+      });
+      expect({ terminal, quiet, stderr: s.stderr, stdout: s.stdout }).toEqual({ terminal, quiet, stderr: "", stdout: "" });
+    }
+  });
+
+  it("calorbit run --json on a terminal: the line goes to stderr and is erased; stdout holds the JSON alone; --quiet and a non-terminal stderr get none", async () => {
+    // A clock that runs a second per reading, so the bundled demo's short run counts as long.
+    let clock = 0;
+    vi.spyOn(performance, "now").mockImplementation(() => (clock += 1000));
+    const shown = streams(true);
+    expect(await main(["node", "calorbit", "run", "--json"], shown)).toBe(0);
+    expect(shown.stderr).toMatch(/^\r\u001b\[Kcalorbit run: toward the periodic state +\d+ % +\d+\.\d s/);
+    expect(shown.stderr.endsWith(ERASE)).toBe(true);
+    const document = JSON.parse(shown.stdout) as { summary: { temperature: { maxK: number } } };
+    expect(document.summary.temperature.maxK).toBeGreaterThan(0);
+    expect(shown.stdout).not.toContain("\r");
+
+    const quiet = streams(true);
+    expect(await main(["node", "calorbit", "run", "--json", "--quiet"], quiet)).toBe(0);
+    const logged = streams(false);
+    expect(await main(["node", "calorbit", "run", "--json"], logged)).toBe(0);
+    expect({ quiet: quiet.stderr, logged: logged.stderr }).toEqual({ quiet: "", logged: "" });
+    expect(quiet.stdout).toBe(logged.stdout);
+    expect(JSON.parse(shown.stdout)).toEqual(JSON.parse(logged.stdout));
+  });
+});
