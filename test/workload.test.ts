@@ -2,7 +2,13 @@ import { describe, expect, it } from "vitest";
 import { CalorbitError } from "../src/errors.js";
 import { buildThermalModel } from "../src/model/build.js";
 import { simulate } from "../src/run/simulate.js";
-import { explainStepLimit, longCycleNote, MAX_CYCLE_STATISTICS_POINTS } from "../src/run/workload.js";
+import { checkWorkload, explainStepLimit, longCycleNote, MAX_COLUMN_LAYER_STEPS, MAX_CYCLE_STATISTICS_POINTS } from "../src/run/workload.js";
+import { columnLayout } from "../src/run/columnCycle.js";
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+import { parseScenarioText } from "../src/scenario/text.js";
+import { calorbit } from "./cliHarness.js";
 import { resolveScenario } from "../src/scenario/resolve.js";
 
 const point = (spin: Record<string, unknown>, heatCapacity = 1e6) =>
@@ -67,5 +73,72 @@ describe("long runs: refused up front by the field that makes them long, step li
     // 2:200 is 1:100 in lowest terms (a p:q resonance repeats after q / gcd(p, q) orbits, common practice).
     expect(longCycleNote(point({ orbitRatio: "2:200" }))).toMatch(/repeats only after 100 orbits/);
     for (const orbitRatio of ["3:2", "1:99", "1:3000"]) expect({ orbitRatio, note: longCycleNote(point({ orbitRatio })) }).toEqual({ orbitRatio, note: undefined });
+  });
+});
+
+/** The regolith demo (a column under a 13:1 spin), with its spin or grid changed. */
+const regolithPath = join(import.meta.dirname, "..", "scenarios", "sarvek-regolith.yaml");
+function regolith(change: (doc: Record<string, any>) => void): Record<string, any> {
+  const doc = parseScenarioText(readFileSync(regolithPath, "utf8"), "yaml", regolithPath) as Record<string, any>;
+  change(doc);
+  return doc;
+}
+function refusal(doc: unknown): CalorbitError {
+  const thermal = resolveScenario(doc).thermal;
+  const model = buildThermalModel(thermal);
+  try {
+    checkWorkload(thermal, model, false);
+  } catch (error) {
+    expect(error).toBeInstanceOf(CalorbitError);
+    return error as CalorbitError;
+  }
+  throw new Error("not refused");
+}
+
+describe("a conduction column's cycle too long to hold: refused before any step, by the field that makes it long", () => {
+  it("refuses a 1:5000 spin (a 5000-orbit cycle of ~5000 solar days), naming spin.orbitRatio; holds 1:1000", () => {
+    // A p:q resonance repeats after q orbits (common practice); each of its solar days takes the grid's 480 steps.
+    const e = refusal(regolith((d) => (d.spin.orbitRatio = "1:5000")));
+    expect(e.code).toBe("SCENARIO_INVALID");
+    expect(e.problems).toHaveLength(1);
+    expect(e.problems[0]!.path).toBe("spin.orbitRatio");
+    expect(e.problems[0]!.given).toBe('"1:5000"');
+    expect(e.problems[0]!.allowed).toMatch(/^a spin whose column cycle fits \(this one: a cycle of 5000 orbits, [\d,]+ steps × \d+ layers = [\d.]+ million layer temperatures against the 67\.1 million a run holds\): a ratio p:q with a smaller q/);
+    // 1:1000 is measured to run (22.5 million layer temperatures, 9 s of CPU): not refused.
+    const thermal = resolveScenario(regolith((d) => (d.spin.orbitRatio = "1:1000"))).thermal;
+    const model = buildThermalModel(thermal);
+    expect(model.kind).toBe("column");
+    if (model.kind !== "column") return;
+    const layout = columnLayout(thermal, model);
+    expect((layout.stepsAsked + 1) * layout.grid.thicknessM.length).toBeLessThan(MAX_COLUMN_LAYER_STEPS);
+    expect(() => checkWorkload(thermal, model, false)).not.toThrow();
+  });
+
+  it("names body.column.grid.stepsPerDay when a raised step count alone makes the cycle too long", () => {
+    // 25 rotations per orbit: 24 solar days per orbit (p − q for a prograde spin, common practice), × 100,000 steps = 2.4 million steps.
+    const e = refusal(
+      regolith((d) => {
+        d.spin.orbitRatio = "25:1";
+        d.body.column.grid = { stepsPerDay: 100_000 };
+      }),
+    );
+    expect(e.problems.map((p) => [p.path, p.given])).toEqual([["body.column.grid.stepsPerDay", "100000"]]);
+    expect(e.problems[0]!.allowed).toMatch(/^fewer steps per day, e\.g\. the default 480 \(this cycle: 2,400,000 steps × \d+ layers/);
+  });
+
+  it("calorbit run exits 2 with the one line, writes nothing, and prints no stack trace", async () => {
+    const dir = mkdtempSync(join(tmpdir(), "calorbit-workload-"));
+    try {
+      const scenario = join(dir, "long.json");
+      writeFileSync(scenario, JSON.stringify(regolith((d) => (d.spin.orbitRatio = "1:5000"))));
+      const csv = join(dir, "out.csv");
+      const r = await calorbit("run", scenario, "--csv", csv);
+      expect(r.status).toBe(2);
+      expect(r.stdout).toBe("");
+      expect(r.stderr).toMatch(/^calorbit: spin\.orbitRatio: given "1:5000"; allowed: a spin whose column cycle fits [^\n]*\n$/);
+      expect(() => readFileSync(csv)).toThrow();
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
   });
 });

@@ -31,6 +31,41 @@ export function columnToleranceFor(requested: number, slabDefault: number): numb
   return requested === slabDefault ? DEFAULT_COLUMN_TOLERANCE : Math.max(requested, 1e-12);
 }
 
+/** Most fixed steps in one column cycle (a cap: more would be refused by the workload check first at any usual depth). */
+export const MAX_COLUMN_STEPS_PER_CYCLE = 2_000_000;
+
+export interface ColumnLayout {
+  tRef: number;
+  cRef: number;
+  cycleSeconds: number;
+  solarDay: number | null;
+  /** The shortest forcing period (the solar day, or the orbit), s. */
+  shortestSeconds: number;
+  shortSkin: number;
+  orbitalM: number;
+  grid: ReturnType<typeof buildColumnGrid>;
+  /** Steps the grid's steps per shortest period ask for over the cycle, before the cap. */
+  stepsAsked: number;
+  stepsPerCycle: number;
+}
+
+/** The column's layers and its fixed steps per cycle, as the solve will take them (the workload check reads them first). */
+export function columnLayout(thermal: ThermalCase, model: ColumnModel): ColumnLayout {
+  const column = model.heatStore.column;
+  const { orbit } = thermal;
+  const p = column.properties;
+  const tRef = model.meanFluxEquilibriumK;
+  const cRef = specificHeatAt(p, tRef);
+  const cycleSeconds = orbit.periodSeconds * model.cycleOrbits;
+  const solarDay = model.solarDaySeconds ?? null;
+  const shortest = solarDay !== null && solarDay < cycleSeconds ? solarDay : orbit.periodSeconds;
+  const shortSkin = skinDepthM(p.conductivitySurface, p.densitySurface, cRef, shortest);
+  const orbitalM = skinDepthM(p.conductivityDeep, p.densityDeep, cRef, cycleSeconds);
+  const grid = buildColumnGrid(p, shortSkin, orbitalM, column.grid);
+  const stepsAsked = Math.max(64, Math.ceil(column.grid.stepsPerShortestPeriod * (cycleSeconds / shortest)));
+  return { tRef, cRef, cycleSeconds, solarDay, shortestSeconds: shortest, shortSkin, orbitalM, grid, stepsAsked, stepsPerCycle: Math.min(MAX_COLUMN_STEPS_PER_CYCLE, stepsAsked) };
+}
+
 export function columnCycle(thermal: ThermalCase, model: ColumnModel, request: CycleRequest): ConvergedCycle {
   const rtol = request.relativeTolerance;
   requireNumber("tolerance", rtol, (t) => t >= 1e-12 && t <= 1e-2, "1e-12 ≤ tolerance ≤ 1e-2");
@@ -47,16 +82,8 @@ export function columnCycle(thermal: ThermalCase, model: ColumnModel, request: C
   const column = model.heatStore.column;
   const { orbit } = thermal;
   const p = column.properties;
-  const tRef = model.meanFluxEquilibriumK;
-  const cRef = specificHeatAt(p, tRef);
-  const cycleSeconds = orbit.periodSeconds * model.cycleOrbits;
-  const solarDay = model.solarDaySeconds ?? null;
-  const shortest = solarDay !== null && solarDay < cycleSeconds ? solarDay : orbit.periodSeconds;
+  const { tRef, cRef, solarDay, shortSkin, orbitalM, grid, stepsPerCycle } = columnLayout(thermal, model);
   const diurnalM = solarDay !== null ? skinDepthM(p.conductivitySurface, p.densitySurface, cRef, solarDay) : null;
-  const shortSkin = skinDepthM(p.conductivitySurface, p.densitySurface, cRef, shortest);
-  const orbitalM = skinDepthM(p.conductivityDeep, p.densityDeep, cRef, cycleSeconds);
-  const grid = buildColumnGrid(p, shortSkin, orbitalM, column.grid);
-  const stepsPerCycle = Math.min(2_000_000, Math.max(64, Math.ceil(column.grid.stepsPerShortestPeriod * (cycleSeconds / shortest))));
   // Cells that exchange no heat: one column under each, solved on its own (the same grid and steps,
   // so the step grids coincide); the first cell's column gives the depth extras.
   const cellCount = model.stateNames.length;

@@ -4,7 +4,9 @@
  * change (which field or flag, in which direction). Pure: no I/O.
  */
 import { CalorbitError, describeValue, type FieldProblem } from "../errors.js";
-import type { ThermalModel } from "../model/build.js";
+import type { ColumnModel, ThermalModel } from "../model/build.js";
+import { DEFAULT_GRID } from "../physics/column.js";
+import { columnLayout, MAX_COLUMN_STEPS_PER_CYCLE } from "./columnCycle.js";
 import { gcd } from "../model/regimes.js";
 import type { ThermalCase } from "../model/thermalCase.js";
 
@@ -25,9 +27,28 @@ const LOOSEST_ADVISED_TOLERANCE = 1e-5;
 /** Solar days per orbit from which a fast spin is named as the cost of a point's run. */
 const MANY_SOLAR_DAYS = 50;
 
-/** Refuses a periodic slab cycle whose statistics grid would not fit, naming the spin field that sets its length. */
+/**
+ * Layer temperatures one column cycle may hold, summed over the surface's columns (each column keeps
+ * every layer at every step of its last cycle: 8 bytes each). Measured on the regolith demo's column
+ * (k(T), c(T): two passes a step) stretched by its spin.orbitRatio, CPU seconds and peak memory of the
+ * whole process, at load 10-14 on 2 cores (CPU time swings less with load than wall time):
+ *   1:100   47,520 steps × 39 layers =  1.9 M per cycle, 6 cycles:  1.3 s CPU, 107 MB
+ *   1:300  143,520 steps × 43 layers =  6.2 M,            7 cycles:  3.5 s CPU, 169 MB
+ *   1:1000 479,521 steps × 47 layers = 22.5 M,            5 cycles:  9.0 s CPU, 336 MB
+ *   1:2000 959,521 steps × 49 layers = 47.0 M,            9 cycles: 27.5 s CPU, 589 MB
+ * so 60-80 ns per layer and step and 12-15 bytes of the process per layer temperature held. At this
+ * cap (67 M) a cycle holds 0.54 GB of layers (~0.9 GB for the process) and 5-9 cycles take 25-50 s
+ * of one core: the same order as the slab's cap; beyond it a run is minutes and gigabytes.
+ */
+export const MAX_COLUMN_LAYER_STEPS = 1 << 26;
+
+/** Refuses a cycle too long to hold (a slab's statistics grid, a column's layers × steps), naming the field that makes it long. */
 export function checkWorkload(thermal: ThermalCase, model: ThermalModel, transient: boolean): void {
-  if (model.kind !== "slab" || transient || !model.commensurate) return;
+  if (model.kind === "column") {
+    if (!transient && model.commensurate) checkColumnWorkload(thermal, model);
+    return;
+  }
+  if (transient || !model.commensurate) return;
   const points = model.cycleOrbits * model.statsPointsPerOrbit;
   if (points <= MAX_CYCLE_STATISTICS_POINTS) return;
   const ratio = thermal.spin?.ratio;
@@ -40,6 +61,40 @@ export function checkWorkload(thermal: ThermalCase, model: ThermalModel, transie
     allowed: `a spin whose cycle repeats within ${maxOrbits} orbits (this one repeats after ${model.cycleOrbits} orbits, ${(points / 1e6).toFixed(1)} million statistics points against the ${(MAX_CYCLE_STATISTICS_POINTS / 1e6).toFixed(1)} million a run holds): a ratio p:q with a smaller q, or a spin.period that is not a ratio (its seasonal run summarises a shorter beat)`,
   };
   throw new CalorbitError("SCENARIO_INVALID", "the cycle is too long to hold", [problem]);
+}
+
+/**
+ * Refuses a column cycle whose layers × steps (× columns) would not fit, before any step. The field
+ * named is the one that makes it long: the grid's steps per day or its layer cap when raised above
+ * their defaults and enough to pass the limit on their own, else the spin (many solar days, or a p:q
+ * cycle of many orbits), whose forcing periods each take the grid's steps.
+ */
+function checkColumnWorkload(thermal: ThermalCase, model: ColumnModel): void {
+  const layout = columnLayout(thermal, model);
+  const layers = layout.grid.thicknessM.length;
+  const columns = model.stateNames.length;
+  const held = (layout.stepsAsked + 1) * layers * columns;
+  if (held <= MAX_COLUMN_LAYER_STEPS && layout.stepsAsked <= MAX_COLUMN_STEPS_PER_CYCLE) return;
+  const grid = model.heatStore.column.grid;
+  const periods = layout.cycleSeconds / layout.shortestSeconds;
+  const wouldFit = (stepsPerPeriod: number, layerCount: number) => (Math.ceil(stepsPerPeriod * periods) + 1) * layerCount * columns <= MAX_COLUMN_LAYER_STEPS && stepsPerPeriod * periods <= MAX_COLUMN_STEPS_PER_CYCLE;
+  const size = `${layout.stepsAsked.toLocaleString("en-US")} steps × ${layers} layers${columns > 1 ? ` × ${columns} columns` : ""} = ${(held / 1e6).toFixed(1)} million layer temperatures against the ${(MAX_COLUMN_LAYER_STEPS / 1e6).toFixed(1)} million a run holds`;
+  const ratio = thermal.spin?.ratio;
+  let problem: FieldProblem;
+  if (grid.stepsPerShortestPeriod > DEFAULT_GRID.stepsPerShortestPeriod && wouldFit(DEFAULT_GRID.stepsPerShortestPeriod, layers)) {
+    problem = { path: "body.column.grid.stepsPerDay", given: String(grid.stepsPerShortestPeriod), allowed: `fewer steps per day, e.g. the default ${DEFAULT_GRID.stepsPerShortestPeriod} (this cycle: ${size})` };
+  } else if (grid.maxLayers > DEFAULT_GRID.maxLayers && layers > DEFAULT_GRID.maxLayers && wouldFit(grid.stepsPerShortestPeriod, DEFAULT_GRID.maxLayers)) {
+    problem = { path: "body.column.grid.maxLayers", given: String(grid.maxLayers), allowed: `fewer layers, e.g. the default ${DEFAULT_GRID.maxLayers} (this cycle: ${size})` };
+  } else {
+    const orbits = model.cycleOrbits;
+    const what = orbits > 1 ? `a cycle of ${orbits} orbits` : `${periods.toFixed(0)} solar days per orbit`;
+    problem = {
+      path: ratio ? "spin.orbitRatio" : "spin.period",
+      given: ratio ? describeValue(`${ratio.spin}:${ratio.orbit}`) : `${thermal.spin?.rateRadPerSecond ? ((2 * Math.PI) / thermal.spin.rateRadPerSecond).toPrecision(6) : "?"} s`,
+      allowed: `a spin whose column cycle fits (this one: ${what}, ${size}): ${orbits > 1 ? "a ratio p:q with a smaller q" : "a slower spin"}, fewer body.column.grid.stepsPerDay, or a slab (body.heatCapacity), whose cycle holds far less`,
+    };
+  }
+  throw new CalorbitError("SCENARIO_INVALID", "the column cycle is too long to hold", [problem]);
 }
 
 /**
