@@ -12,7 +12,7 @@ import cliProgress from "cli-progress";
 import { CalorbitError } from "../errors.js";
 import { caseCount, shardIds, shardSize, type Shard } from "../sweep/design.js";
 import { caseMaker } from "../sweep/design.js";
-import { headerLines, JSONL_MARKER, lineCaseId, lineOk, readHeader, runChunk, type ChunkResult, type SweepDefinition } from "../sweep/runCase.js";
+import { caseRunner, headerLines, JSONL_MARKER, lineCaseId, lineOk, readHeader, runChunk, type ChunkResult, type SweepDefinition } from "../sweep/runCase.js";
 
 export type { ChunkResult } from "../sweep/runCase.js";
 
@@ -230,6 +230,7 @@ export async function runSweep(run: SweepRun): Promise<SweepResult> {
   const chunkSize = Math.max(1, Math.min(MAX_CHUNK, Math.ceil(remaining / (8 * run.workers))));
   if (remaining <= IN_THREAD_CASES) {
     const makeCase = caseMaker(run.definition.design);
+    const runCase = caseRunner(run.definition);
     let written = 0;
     try {
       for (let chunk = 0; ; chunk++) {
@@ -240,7 +241,7 @@ export async function runSweep(run: SweepRun): Promise<SweepResult> {
           chunkIds.push(n.value);
         }
         if (chunkIds.length === 0) break;
-        const result = runChunk(run.definition, makeCase, chunk, chunkIds);
+        const result = runChunk(run.definition, makeCase, chunk, chunkIds, runCase);
         sink.write(result);
         written += result.count;
         failed += result.failed;

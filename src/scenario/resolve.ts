@@ -110,7 +110,12 @@ export function resolveScenario(raw: unknown): ResolvedScenario {
   return fromParsed(result.data, raw);
 }
 
-function fromParsed(s: ParsedScenario, raw: unknown): ResolvedScenario {
+/**
+ * A document zod has already parsed, resolved to SI with every cross-field and physical check
+ * (`raw` is the document as written, for the given values in messages). `resolveScenario` is
+ * this after the parse; a sweep worker calls it directly with the parse assembled from parts.
+ */
+export function fromParsed(s: ParsedScenario, raw: unknown): ResolvedScenario {
   const problems: FieldProblem[] = [];
   const problem = (path: string, allowed: string) => problems.push({ path, given: render(valueAt(raw, path.split("."))), allowed });
 

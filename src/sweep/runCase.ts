@@ -15,6 +15,7 @@ import { observeMap } from "../run/observeMap.js";
 import { MAP_DEFAULT_TOLERANCE } from "../run/simulateMap.js";
 import { VERSION } from "../version.js";
 import type { CaseValues, Design, Shard } from "./design.js";
+import { caseScenarios } from "./caseScenario.js";
 import { columnValue, setPath } from "./spec.js";
 
 export type SweepFormat = "csv" | "jsonl" | "parquet";
@@ -320,30 +321,63 @@ function zonalMetrics(thermal: ThermalCase): Metrics {
   };
 }
 
-/** Runs one case: its cells in column order (see `columns`); a failed case has status "error: …" and empty metrics. */
+function metricsFor(thermal: ThermalCase, relativeTolerance: number): Metrics {
+  switch (REGIME_TABLE[thermal.regime].pipeline) {
+    case "surface":
+      return metricsOf(thermal, relativeTolerance);
+    case "map":
+      return mapMetrics(thermal, relativeTolerance);
+    case "zonal":
+      return zonalMetrics(thermal);
+  }
+}
+
+function cellsOf(def: SweepDefinition, c: CaseValues, status: string, metrics: Metrics | null): Cell[] {
+  const cells: Cell[] = [c.id];
+  def.design.axes.forEach((a, d) => cells.push(columnValue(a, c.values[d]!)));
+  cells.push(status);
+  for (const k of METRIC_COLUMNS) cells.push(metrics ? metrics[k] : null);
+  return cells;
+}
+
+/**
+ * Runs one case from its whole document (the base scenario with the case's values set, parsed and
+ * checked as a scenario file is): its cells in column order (see `columns`); a failed case has
+ * status "error: …" and empty metrics. The reference every faster path must equal.
+ */
 export function caseCells(def: SweepDefinition, c: CaseValues): Cell[] {
-  const inputs = def.design.axes.map((a, d) => columnValue(a, c.values[d]!));
   let status = "ok";
   let metrics: Metrics | null = null;
   try {
     const doc = structuredClone(def.scenario);
     def.design.axes.forEach((a, d) => setPath(doc, a.path, c.values[d]!));
-    const { thermal } = resolveScenario(doc);
-    switch (REGIME_TABLE[thermal.regime].pipeline) {
-      case "surface":
-        metrics = metricsOf(thermal, def.relativeTolerance);
-        break;
-      case "map":
-        metrics = mapMetrics(thermal, def.relativeTolerance);
-        break;
-      case "zonal":
-        metrics = zonalMetrics(thermal);
-        break;
-    }
+    metrics = metricsFor(resolveScenario(doc).thermal, def.relativeTolerance);
   } catch (err) {
     status = `error: ${failureReason(err)}`.replace(/\s+/g, " ");
   }
-  return [c.id, ...inputs, status, ...METRIC_COLUMNS.map((k) => (metrics ? metrics[k] : null))];
+  return cellsOf(def, c, status, metrics);
+}
+
+/**
+ * A case runner for many cases of one sweep (a worker's): the base scenario is parsed once and a
+ * case re-parses only its axes' values (`caseScenarios`: the same ThermalCase as the whole parse).
+ * A case that fails on that path is run again by `caseCells`, so that every failure is worded, and
+ * every row is, exactly as the whole document's run gives it.
+ */
+export function caseRunner(def: SweepDefinition): (c: CaseValues) => Cell[] {
+  const scenarios = caseScenarios(def.scenario, def.design.axes.map((a) => a.path));
+  if (!scenarios) return (c) => caseCells(def, c);
+  return (c) => {
+    const thermal = scenarios.thermal(c.values);
+    if (thermal === null) return caseCells(def, c);
+    let metrics: Metrics;
+    try {
+      metrics = metricsFor(thermal, def.relativeTolerance);
+    } catch {
+      return caseCells(def, c);
+    }
+    return cellsOf(def, c, "ok", metrics);
+  };
 }
 
 /** Index of the status cell in a row. */
@@ -379,10 +413,16 @@ export interface ChunkResult {
   rows?: Cell[][];
 }
 
-/** Runs the cases of one chunk. */
-export function runChunk(def: SweepDefinition, makeCase: (id: number) => CaseValues, chunk: number, ids: readonly number[]): ChunkResult {
+/** Runs the cases of one chunk (with `run`, a `caseRunner` made once for many chunks). */
+export function runChunk(
+  def: SweepDefinition,
+  makeCase: (id: number) => CaseValues,
+  chunk: number,
+  ids: readonly number[],
+  run: (c: CaseValues) => Cell[] = (c) => caseCells(def, c),
+): ChunkResult {
   const statusAt = statusIndex(def);
-  const rows = ids.map((id) => caseCells(def, makeCase(id)));
+  const rows = ids.map((id) => run(makeCase(id)));
   let failed = 0;
   let firstFailure: string | null = null;
   for (const row of rows) {
