@@ -1,0 +1,40 @@
+/**
+ * The shooting loop's pass schedule on a surface that forgets its start within the cycle: a
+ * point with 20 solar days per orbit under a thin skin (radiative time about a quarter of a day).
+ */
+import { describe, expect, it } from "vitest";
+import { ASTRONOMICAL_UNIT_M, SOLAR_LUMINOSITY_W } from "../src/constants.js";
+import { LumpedBalance } from "../src/physics/energyBalance.js";
+import { pointForcing } from "../src/physics/forcing.js";
+import type { Orbit } from "../src/physics/orbit.js";
+import { switchPoints } from "../src/solve/corners.js";
+import { integrateCycle, solvePeriodic } from "../src/solve/periodic.js";
+
+const YEAR = 3.15576e7;
+const orbit: Orbit = { semiMajorAxisM: ASTRONOMICAL_UNIT_M, eccentricity: 0.1, periodSeconds: YEAR, meanAnomalyAtStartRad: 0 };
+const n = (2 * Math.PI) / YEAR;
+const spin = { rateRadPerSecond: 21 * n, obliquityRad: 0, equinoxTrueAnomalyRad: 0 };
+const forcing = pointForcing(0.1, SOLAR_LUMINOSITY_W, orbit, 0, 0, spin, 1);
+const balance = new LumpedBalance(orbit, { albedo: 0.1, emissivity: 0.95, heatCapacityJPerM2K: 1e5, internalFluxWPerM2: 0.03 }, forcing);
+const breakpoints = switchPoints((E) => forcing.absorbedAt(E), 0, 2 * Math.PI, 4096);
+
+describe("periodic shooting on a map that contracts strongly", () => {
+  it("takes one coarse pass and one final pass from a start 60 % off, and lands where many plain cycles from another start do", () => {
+    // Fixed point of the one-orbit map Φ, found independently: Φ applied three times from 150 K at a
+    // tight tolerance (each orbit forgets its start by a factor far below 1e-100: τ ≈ 0.3 d against 365 d).
+    const plain = Float64Array.of(150);
+    for (let k = 0; k < 3; k++) integrateCycle(balance, "dormand-prince", 0, 2 * Math.PI, plain, 1e-12, Float64Array.of(280), undefined, 1e6, breakpoints);
+    const problem = { system: balance, start: 0, cycleLength: 2 * Math.PI, guess: Float64Array.of(plain[0]! * 1.6), scale: Float64Array.of(280), stiffness: 1e4, forcingHasCorners: true, breakpoints, maxStepsPerCycle: 1e6 };
+    const samples = { xs: Float64Array.of(0, 1, 2, 3), ys: new Float64Array(4), components: 1 };
+    for (const result of [solvePeriodic(problem, { relativeTolerance: 1e-8 }), solvePeriodic(problem, { relativeTolerance: 1e-8, samples })]) {
+      expect(result.monodromyDiagonal[0]!).toBeLessThan(1e-100);
+      // Newton from 60 % off lands within the first pass's integration error (1e-6): a second coarse
+      // pass would have nothing to remove (and, repeating the first's steps exactly, would find a
+      // residual of exactly 0 at the coarse tolerance), so the next pass is the final one.
+      expect(result.iterations).toBe(2);
+      expect(result.odeRelativeTolerance).toBeLessThan(1e-10);
+      expect(Math.abs(result.start[0]! / plain[0]! - 1)).toBeLessThan(1e-9);
+    }
+    expect(Math.abs(samples.ys[0]! / plain[0]! - 1)).toBeLessThan(1e-9);
+  });
+});
