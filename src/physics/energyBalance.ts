@@ -8,10 +8,14 @@
  */
 import { STEFAN_BOLTZMANN } from "../constants.js";
 import { requireNumber } from "../errors.js";
-import type { OdeSystem } from "../solve/system.js";
+import type { DenseSamples, OdeSystem } from "../solve/system.js";
 import { checkIncidenceAlbedo, type IncidenceAlbedo } from "./albedo.js";
 import type { Forcing } from "./forcing.js";
 import { meanMotion, type Orbit } from "./orbit.js";
+import { UnlitCooling } from "./unlitCooling.js";
+
+/** Points at which an arc's forcing is probed for darkness before its closed-form flow is used. */
+const DARK_PROBES = 32;
 
 export interface SurfaceProperties {
   /** Bond albedo A, 0 ≤ A ≤ 1 (enters through the forcing); with `albedoIncidence`, the albedo A₀ at normal incidence. */
@@ -51,6 +55,7 @@ export class LumpedBalance implements OdeSystem {
   private readonly emissionCoefficient: number;
   private readonly inverseHeatCapacity: number;
   private readonly internalFlux: number;
+  private readonly unlit: UnlitCooling;
 
   constructor(
     readonly orbit: Orbit,
@@ -63,6 +68,43 @@ export class LumpedBalance implements OdeSystem {
     this.emissionCoefficient = surface.emissivity * STEFAN_BOLTZMANN;
     this.inverseHeatCapacity = 1 / surface.heatCapacityJPerM2K;
     this.internalFlux = surface.internalFluxWPerM2;
+    this.unlit = new UnlitCooling(this.emissionCoefficient, surface.heatCapacityJPerM2K, surface.internalFluxWPerM2);
+  }
+
+  /** Time from periastron passage at eccentric anomaly E, s (Kepler's equation, explicit in E). */
+  private timeAt(eccentricAnomalyRad: number): number {
+    return (eccentricAnomalyRad - this.eccentricity * Math.sin(eccentricAnomalyRad)) * this.inverseMeanMotion;
+  }
+
+  /**
+   * Across an arc with no starlight (a night between a sunset and a sunrise that the caller found)
+   * the temperature is ./unlitCooling.ts's closed form of the time elapsed: no steps. The forcing
+   * is probed at 32 points inside the arc; any light there and the arc is left to the integrator.
+   */
+  exactArc(x0: number, x1: number, y: Float64Array, samples?: DenseSamples): boolean {
+    const start = y[0]!;
+    if (!(start > this.unlit.floorK * 1.001) || !(x1 > x0)) return false;
+    for (let j = 0; j < DARK_PROBES; j++) {
+      if (this.forcing.absorbedAt(x0 + ((j + 0.5) / DARK_PROBES) * (x1 - x0)) !== 0) return false;
+    }
+    const t0 = this.timeAt(x0);
+    if (samples) {
+      const { xs, ys, components } = samples;
+      let previous = start;
+      for (let k = 0; k < xs.length; k++) {
+        const x = Math.min(xs[k]!, x1); // the last arc's samples may lie a rounding hair past its end
+        const value = x <= x0 ? start : this.unlit.after(start, this.timeAt(x) - t0, previous);
+        ys[k * components] = value;
+        previous = value;
+      }
+    }
+    y[0] = this.unlit.after(start, this.timeAt(x1) - t0);
+    return true;
+  }
+
+  /** ∂T(x)/∂T(x0) across an arc that `exactArc` took, from the temperatures at its ends. */
+  exactArcSlope(startK: number, endK: number): number {
+    return this.unlit.flowSlope(startK, endK);
   }
 
   /** dt/dE = (1 − e cos E)/n, s rad⁻¹. */

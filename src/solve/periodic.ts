@@ -142,6 +142,23 @@ class WithSensitivity implements OdeSystem {
       }
     }
   }
+  /**
+   * A one-state system's exact arc (./system.ts), with the sensitivity carried by the flow's slope
+   * ∂y(x)/∂y(x0) (the base's `exactArcSlope`): S(x) = S(x0) · slope.
+   */
+  exactArc(x0: number, x1: number, y: Float64Array, samples?: DenseSamples): boolean {
+    const base = this.base;
+    if (base.dimension !== 1 || !base.exactArc || !base.exactArcSlope) return false;
+    const start = y[0]!;
+    const sensitivity = y[1]!;
+    if (!base.exactArc(x0, x1, y, samples)) return false;
+    if (samples && samples.components > 1) {
+      const { ys, components } = samples;
+      for (let k = 0; k < samples.xs.length; k++) ys[k * components + 1] = sensitivity * base.exactArcSlope(start, ys[k * components]!);
+    }
+    y[1] = sensitivity * base.exactArcSlope(start, y[0]!);
+    return true;
+  }
   /** Block-diagonal approximation (J on every block, the ∂(JS)/∂y terms dropped): Radau uses it only in its simplified Newton iteration, so the solution it converges to is unchanged. */
   jacobian(x: number, y: ArrayLike<number>, out: Float64Array): void {
     const n = this.base.dimension;
@@ -249,6 +266,12 @@ export function integrateCycle(
         arcSamples = { xs: samples.xs.subarray(nextSample, last), ys: samples.ys.subarray(nextSample * c, last * c), components: c };
       }
       nextSample = last;
+    }
+    if (system.exactArc && system.exactArc(arcStart, arcEnd, y, arcSamples)) {
+      // a closed-form arc: one exact step, no right-hand-side evaluations
+      work.steps++;
+      arcStart = arcEnd;
+      continue;
     }
     const remaining = maxSteps === undefined ? undefined : Math.max(1, maxSteps - work.steps - work.rejected);
     addWork(

@@ -13,6 +13,15 @@ export interface OdeSystem {
   derivativeAndJacobian?(x: number, y: ArrayLike<number>, out: Float64Array, jacobianOut: Float64Array): void;
   /** Optional: (∂f/∂y) v at (x, y) into `out`, without forming the matrix (a matrix-free periodic solve of a large state uses it). */
   jacobianProduct?(x: number, y: ArrayLike<number>, v: ArrayLike<number>, out: Float64Array): void;
+  /**
+   * Optional: the exact flow across an arc between two corners of the forcing, where the system
+   * has one in closed form (a slab in the dark). Advances `y` from x0 to x1 and writes the state at
+   * each sample in [.., x1] (its first `dimension` components, at the samples' stride); returns
+   * false, touching nothing, where it has none. Allocates nothing.
+   */
+  exactArc?(x0: number, x1: number, y: Float64Array, samples?: DenseSamples): boolean;
+  /** With `exactArc` on a one-state system: ∂y(x)/∂y(x0) along the arc it took, from y at its ends. */
+  exactArcSlope?(start: number, end: number): number;
 }
 
 /** Work done by an integrator, summed over calls. */
