@@ -22,8 +22,9 @@ import { runEnsemble, type EnsembleState } from "../../fit/ensemble.js";
 import { chainHeader, chainRows, initialWalkers, parseChain, summarisePosterior, type PosteriorSummary, type SavedChain } from "../../fit/posterior.js";
 import { fitDocument, fitText, residualCsv } from "../../fit/report.js";
 import { fitSvg } from "../../fit/svg.js";
-import { loadScenarioDocument, writeFileAtomic } from "../io.js";
+import { loadScenarioDocument, writeFilesAtomic } from "../io.js";
 import { progressLine } from "../progressLine.js";
+import { refuseUnwritable } from "../outputPaths.js";
 import { integerFlag, usage } from "../flags.js";
 import { err, out } from "../output.js";
 
@@ -60,6 +61,7 @@ function checkOutputs(inputs: string[], outputs: [string, string | undefined][])
     if (seen.has(full)) throw usage(flag, JSON.stringify(path), "a file different from the other outputs");
     seen.add(full);
   }
+  refuseUnwritable(outputs);
 }
 
 export async function fitCommand(scenarioPath: string, flags: FitFlags): Promise<void> {
@@ -144,10 +146,13 @@ export async function fitCommand(scenarioPath: string, flags: FitFlags): Promise
   }
   const title = String((scenario as { name?: unknown }).name ?? scenarioPath);
   const report = { title, observations, fit, dataFile: flags.data, outputSpec: output.spec, ...(posterior ? { posterior } : {}) };
-  if (flags.residuals !== undefined) writeFileAtomic(flags.residuals, residualCsv(observations, fit, parameters));
   const keptChain = chainSteps ? { chain: chainSteps.slice(posterior!.burnIn) } : {};
   const curve = flags.svg !== undefined || flags.view ? fitCurve(settings, fit.values, observations) : null;
-  if (flags.svg !== undefined) writeFileAtomic(flags.svg, fitSvg({ title, observations, fit, parameters, curve: curve!, ...keptChain }));
+  // Every output built first, then all written together: a failure leaves none of them half done.
+  const files: [string, string][] = [];
+  if (flags.residuals !== undefined) files.push([flags.residuals, residualCsv(observations, fit, parameters)]);
+  if (flags.svg !== undefined) files.push([flags.svg, fitSvg({ title, observations, fit, parameters, curve: curve!, ...keptChain })]);
+  writeFilesAtomic(files);
   if (flags.json) {
     out(JSON.stringify(fitDocument(report), null, 2) + "\n");
   } else {

@@ -43,7 +43,7 @@ async function runCommand(scenarioPath: string | undefined, flags: RunFlags): Pr
     if (!(options.transient.startK > 0)) throw usage("--from", JSON.stringify(flags.from), "a temperature > 0 K");
   }
   // Loaded here, not at start-up: the scenario reader, the solvers and the writers.
-  const [{ loadScenario, writeFileAtomic }, { simulate }, { longCycleNote }, { heatStoreOf }, { REGIME_TABLE }, { seriesCsv }, { resultDocument }, { temperatureSvg }, { summaryText }, { resultWarnings }] =
+  const [{ loadScenario, writeFilesAtomic }, { simulate }, { longCycleNote }, { heatStoreOf }, { REGIME_TABLE }, { seriesCsv }, { resultDocument }, { temperatureSvg }, { summaryText }, { resultWarnings }] =
     await Promise.all([
       import("../io.js"),
       import("../../run/simulate.js"),
@@ -65,7 +65,7 @@ async function runCommand(scenarioPath: string | undefined, flags: RunFlags): Pr
   };
   switch (REGIME_TABLE[resolved.thermal.regime].pipeline) {
     case "zonal":
-      return runZonal(resolved, flags, options, writeFileAtomic, () => report([]));
+      return runZonal(resolved, flags, options, writeFilesAtomic, () => report([]));
     case "map": {
       if (options.transient) throw usage("--from", JSON.stringify(flags.from ?? ""), "no transient mode for the map regime (it runs to its periodic state)");
       if (integrator) throw usage("--integrator", JSON.stringify(flags.integrator), "the map regime chooses its integrator per cell");
@@ -91,8 +91,11 @@ async function runCommand(scenarioPath: string | undefined, flags: RunFlags): Pr
   if (note !== undefined) err(`calorbit: note: ${note}\n`);
   const sim = withProgressLine("run", flags.quiet, (onProgress) => simulate(resolved.thermal, onProgress ? { ...options, onProgress } : options));
   report(resultWarnings(resolved.thermal, sim.summary, { periodic: sim.solver.mode === "periodic", singleState: sim.series.states.length === 1 }));
-  if (flags.csv !== undefined) writeFileAtomic(flags.csv, seriesCsv(resolved, sim));
-  if (flags.svg !== undefined) writeFileAtomic(flags.svg, temperatureSvg(resolved.thermal.name, sim.series, sim.summary));
+  // Every output built first, then all written together: a failure leaves none of them half done.
+  const files: [string, string][] = [];
+  if (flags.csv !== undefined) files.push([flags.csv, seriesCsv(resolved, sim)]);
+  if (flags.svg !== undefined) files.push([flags.svg, temperatureSvg(resolved.thermal.name, sim.series, sim.summary)]);
+  writeFilesAtomic(files);
   if (flags.json) {
     out(JSON.stringify({ ...resultDocument(resolved, sim, flags.series === true), warnings }, null, 2) + "\n");
   } else {
@@ -107,7 +110,7 @@ async function runZonal(
   resolved: ResolvedScenario,
   flags: RunFlags,
   options: SimulateOptions,
-  writeFileAtomic: (path: string, text: string) => void,
+  writeFilesAtomic: (files: readonly (readonly [string, string])[]) => void,
   reportWarnings: () => void,
 ): Promise<void> {
   if (options.transient) throw usage("--from", JSON.stringify(flags.from ?? ""), "no transient mode for the zonal climate (it runs to its periodic climates from a warm and/or a cold start)");
@@ -121,8 +124,10 @@ async function runZonal(
   const sim = withProgressLine("run", flags.quiet, (onProgress) => simulateZonal(zonal, onProgress ? { onProgress } : {}));
   const climate = resolved.thermal.climate!;
   const samples = options.samples ?? DEFAULT_SAMPLES;
-  if (flags.csv !== undefined) writeFileAtomic(flags.csv, zonalCsv(resolved, zonal, sim, samples));
-  if (flags.svg !== undefined) writeFileAtomic(flags.svg, zonalProfileSvg(resolved.thermal.name, sim));
+  const files: [string, string][] = [];
+  if (flags.csv !== undefined) files.push([flags.csv, zonalCsv(resolved, zonal, sim, samples)]);
+  if (flags.svg !== undefined) files.push([flags.svg, zonalProfileSvg(resolved.thermal.name, sim)]);
+  writeFilesAtomic(files);
   reportWarnings();
   if (flags.json) {
     out(JSON.stringify({ ...zonalDocument(resolved, sim, climate), warnings: resolved.warnings ?? [] }, null, 2) + "\n");

@@ -9,7 +9,7 @@ import { parsePassbandTable } from "../../scenario/passbandFile.js";
 import type { ResolvedScenario } from "../../scenario/resolve.js";
 import { mapText } from "../../report/mapReport.js";
 import { quantityFlag } from "../flags.js";
-import { writeFileAtomic } from "../io.js";
+import { writeFilesAtomic } from "../io.js";
 import { out, warn } from "../output.js";
 import { withProgressLine } from "../progressLine.js";
 
@@ -55,7 +55,7 @@ export function runMap(resolved: ResolvedScenario, scenarioFile: string, flags: 
   if (flags.csv !== undefined) outputs.push([flags.csv, mapSeriesCsv(resolved, observed)]);
   if (flags.mapCsv !== undefined) outputs.push([flags.mapCsv, mapSnapshotCsv(resolved, observed, sample)]);
   if (flags.svg !== undefined) outputs.push([flags.svg, mapSvg(resolved, observed, sample)]);
-  for (const [path, content] of outputs) writeFileAtomic(path, content);
+  writeFilesAtomic(outputs);
   // Warnings (a bare-number luminosity) on stderr, never in the data; the JSON result lists them too.
   const warnings = resolved.warnings ?? [];
   for (const w of warnings) warn(w);
