@@ -12,6 +12,7 @@ import { DEFAULT_GRID } from "../src/physics/column.js";
 import { stellarFlux } from "../src/physics/flux.js";
 import { meanMotion } from "../src/physics/orbit.js";
 import { observeMap } from "../src/run/observeMap.js";
+import { compareRegimes } from "../src/run/compare.js";
 import { estimatedShare, ProgressMeter, type ProgressStage } from "../src/run/progress.js";
 import { simulate } from "../src/run/simulate.js";
 import { simulateZonal, type ZonalCase } from "../src/run/zonal.js";
@@ -133,6 +134,19 @@ describe("progress of a single run", () => {
     // The warm start fills the first half, the cold start the second.
     expect(reports.some(([f]) => f > 0.5 && f < 1)).toBe(true);
     expect(sim.climates.map((c) => c.summary)).toEqual(plain.climates.map((c) => c.summary));
+  });
+
+  it("compare: each regime's run is its share of the whole, one after another, rising to 1", () => {
+    const thermal = nominalCase({ e: 0.3, heatCapacity: 1e7 });
+    const { reports, hook } = recorder();
+    const comparison = compareRegimes(thermal, ["global", "daynight"], { samples: 40, onProgress: hook });
+    expect(comparison.rows.map((row) => row.error)).toEqual([undefined, undefined]);
+    expectRisingToOne(reports, "periodic", 4);
+    // The first regime's passes and its end fall in the first half (its end at exactly 1/2), the second's in the second.
+    const first = comparison.rows[0]!.simulation!.solver.iterations + 1;
+    expect(reports.slice(0, first).every(([f]) => f <= 0.5)).toBe(true);
+    expect(reports[first - 1]![0]).toBe(0.5);
+    expect(reports.slice(first, -1).every(([f]) => f > 0.5 && f < 1)).toBe(true);
   });
 
   it("the meter: parts map onto the whole, nothing falls, and without a hook nothing is called", () => {
