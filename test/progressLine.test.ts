@@ -3,6 +3,9 @@
  * erased at the end; never on stdout, never into a log or a pipe, and not with --quiet. The clock is
  * the test's own (no test here depends on the machine's speed).
  */
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
 import { afterEach, describe, expect, it, vi } from "vitest";
 import { withStreams, type OutputStreams } from "../src/cli/output.js";
 import { progressLine, SHOW_AFTER_MS } from "../src/cli/progressLine.js";
@@ -90,5 +93,31 @@ describe("the progress line", () => {
     expect({ quiet: quiet.stderr, logged: logged.stderr }).toEqual({ quiet: "", logged: "" });
     expect(quiet.stdout).toBe(logged.stdout);
     expect(JSON.parse(shown.stdout)).toEqual(JSON.parse(logged.stdout));
+  });
+
+  it("calorbit fit on a terminal: the least squares show their model runs on stderr, erased at the end; stdout holds the JSON alone", async () => {
+    const dir = mkdtempSync(join(tmpdir(), "calorbit-fitline-"));
+    try {
+      // An invented slab; its data are the model's own series at A = 0.25 (a fit with a known answer).
+      const scenario = join(dir, "world.yaml");
+      writeFileSync(scenario, "name: Fit line world (invented)\nstar: { luminosity: 0.8 Lsun }\norbit: { semiMajorAxis: 0.15 au, eccentricity: 0.3, period: 20 d }\nbody: { albedo: 0.25, emissivity: 0.95, heatCapacity: 1 MJ/m2/K }\n");
+      const series = join(dir, "series.csv");
+      expect(await main(["node", "calorbit", "run", scenario, "--csv", series, "--samples", "40"], streams(false))).toBe(0);
+      const lines = readFileSync(series, "utf8").split("\n").filter((l) => l.length > 0 && !l.startsWith("#"));
+      const header = lines[0]!.split(",");
+      const [t, T] = [header.indexOf("time_s"), header.indexOf("temperature_K")];
+      const data = join(dir, "data.csv");
+      writeFileSync(data, ["time_s,temperature_K,sigma_K", ...lines.slice(1, -1).map((l) => `${l.split(",")[t]},${l.split(",")[T]},0.5`)].join("\n") + "\n");
+      let clock = 0;
+      vi.spyOn(performance, "now").mockImplementation(() => (clock += 1000));
+      const shown = streams(true);
+      const args = ["node", "calorbit", "fit", scenario, "--data", data, "--free", "body.albedo=0..0.6", "--starts", "1", "--tolerance", "1e-5", "--samples", "200", "--json"];
+      expect(await main(args, shown)).toBe(0);
+      expect(shown.stderr).toMatch(/^\r\u001b\[Kcalorbit fit: least squares: \d+ model runs from 1 starts +\d+ % +\d+\.\d s/);
+      expect(shown.stderr.endsWith(ERASE)).toBe(true);
+      expect(JSON.parse(shown.stdout).parameters[0].key).toBe("body.albedo");
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
   });
 });

@@ -24,6 +24,7 @@ import { fitDocument, fitText, residualCsv } from "../../fit/report.js";
 import { fitSvg } from "../../fit/svg.js";
 import { loadScenarioDocument, writeFilesAtomic } from "../io.js";
 import { progressLine } from "../progressLine.js";
+import { estimatedShare } from "../../run/progress.js";
 import { refuseUnwritable } from "../outputPaths.js";
 import { integerFlag, usage } from "../flags.js";
 import { err, out } from "../output.js";
@@ -122,7 +123,12 @@ export async function fitCommand(scenarioPath: string, flags: FitFlags): Promise
     },
   );
   const settings: ForwardSettings = { scenario, parameters, output, relativeTolerance: tolerance, samples };
+  // The least squares' progress: model runs against a typical count (~15 Levenberg–Marquardt
+  // iterations of p + 1 runs per start), shown on a terminal once the fit has lasted a second.
+  const fitLine = progressLine("fit", { quiet: flags.quiet === true });
+  const typicalRuns = starts * 15 * (parameters.length + 1);
   const forward = new ForwardModel(settings, observations);
+  const shownForward = fitLine.hook === undefined ? forward : withRunCount(forward, (runs) => fitLine.update(estimatedShare(runs, typicalRuns), `least squares: ${runs} model runs from ${starts} starts`));
   // Every key and both ends of its bounds must be something the scenario accepts: say so now, not as a failed fit.
   const centre = parameters.map((p) => (p.log ? Math.sqrt(p.low * p.high) : 0.5 * (p.low + p.high)));
   parameters.forEach((p, j) => {
@@ -136,7 +142,12 @@ export async function fitCommand(scenarioPath: string, flags: FitFlags): Promise
   const centreCase = caseFor(settings, centre);
   checkModelOutput(output, centreCase);
   if (REGIME_TABLE[centreCase.regime].pipeline === "map") telescopeOf(centreCase);
-  const fit = fitBest(forward, parameters, { starts, seed });
+  let fit: ReturnType<typeof fitBest>;
+  try {
+    fit = fitBest(shownForward, parameters, { starts, seed });
+  } finally {
+    fitLine.close();
+  }
 
   let posterior: PosteriorSummary | undefined;
   let chainSteps: SavedChain["steps"] | undefined;
@@ -187,6 +198,18 @@ function inlinePassband(scenario: Record<string, unknown>, scenarioPath: string)
   }
   const table = parsePassbandTable(text, band.file);
   observer.passband = { wavelengths: table.wavelengthM.map((m) => `${m} m`), response: [...table.response] };
+}
+
+/** The same forward model, calling `onRun` with the count after each model run (for the progress line). */
+function withRunCount(forward: ForwardModel, onRun: (runs: number) => void): ForwardModel {
+  const predict = forward.predict.bind(forward);
+  let runs = 0;
+  forward.predict = (values, out) => {
+    const result = predict(values, out);
+    onRun(++runs);
+    return result;
+  };
+  return forward;
 }
 
 /** The best-fit model on a fine grid over the data's time span (for the figure). */
