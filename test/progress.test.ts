@@ -27,14 +27,19 @@ function recorder(): { reports: Report[]; hook: (fraction: number, stage: Progre
   return { reports, hook: (fraction, stage) => void reports.push([fraction, stage]) };
 }
 
-/** Rising, inside (0, 1), then exactly one 1 at the end; every stage the one expected. */
-function expectRisingToOne(reports: Report[], stage: ProgressStage, leastReports: number): void {
+/**
+ * Rising, inside (0, 1), then exactly one 1 at the end; every stage the one expected, and for a run
+ * of `simulate` the summary last: its start at 3/4 (the solve's share) and the end.
+ */
+function expectRisingToOne(reports: Report[], stage: ProgressStage, leastReports: number, summarised = true): void {
   expect(reports.length).toBeGreaterThanOrEqual(leastReports);
   for (let i = 1; i < reports.length; i++) expect(reports[i]![0]).toBeGreaterThan(reports[i - 1]![0]);
   expect(reports[0]![0]).toBeGreaterThan(0);
   expect(reports.at(-1)![0]).toBe(1);
   expect(reports.filter(([f]) => f >= 1)).toHaveLength(1);
-  expect(new Set(reports.map(([, s]) => s))).toEqual(new Set([stage]));
+  const solve = summarised ? reports.slice(0, -2) : reports;
+  expect(new Set(solve.map(([, s]) => s))).toEqual(new Set([stage]));
+  if (summarised) expect(reports.slice(-2)).toEqual([[0.75, "summary"], [1, "summary"]]);
 }
 
 describe("progress of a single run", () => {
@@ -45,8 +50,8 @@ describe("progress of a single run", () => {
     const hooked = simulate(thermal, { samples: 50, onProgress: hook });
     const plain = simulate(thermal, { samples: 50 });
     expectRisingToOne(reports, "periodic", 2);
-    // One report per shooting pass (each integrates the cycle once), then the end.
-    expect(reports.length).toBe(hooked.solver.iterations + 1);
+    // One report per shooting pass (each integrates the cycle once), then the summary and the end.
+    expect(reports.length).toBe(hooked.solver.iterations + 2);
     expect(hooked.summary).toEqual(plain.summary);
     expect(Array.from(hooked.series.temperatureK)).toEqual(Array.from(plain.series.temperatureK));
     // Time mean of the flux over an orbit S(a)/√(1 − e²), a quarter of it on a sphere (common practice).
@@ -68,15 +73,18 @@ describe("progress of a single run", () => {
     expect(sim.solver.mode).toBe("seasonal");
     expectRisingToOne(reports, "seasonal", 3);
     const spinUpOrbits = sim.solver.orbitsIntegrated - sim.summary.seasonal!.orbits;
-    expect(reports.length).toBe(spinUpOrbits + 1);
-    // After the spin-up the share is the spin-up's part of all orbits integrated.
-    expect(reports.at(-2)![0]).toBeCloseTo(spinUpOrbits / sim.solver.orbitsIntegrated, 12);
+    expect(reports.length).toBe(spinUpOrbits + 2);
+    // After the spin-up the share is the spin-up's part of all orbits integrated, of the solve's 3/4.
+    expect(reports.at(-3)![0]).toBeCloseTo((0.75 * spinUpOrbits) / sim.solver.orbitsIntegrated, 12);
   });
 
-  it("transient: nothing on the way (one integration), 1 at the end", () => {
+  it("transient: nothing on the way (one integration), then the summary and 1 at the end", () => {
     const { reports, hook } = recorder();
     simulate(nominalCase({ e: 0.2, heatCapacity: 1e7 }), { samples: 20, transient: { startK: 200, orbits: 3 }, onProgress: hook });
-    expect(reports).toEqual([[1, "transient"]]);
+    expect(reports).toEqual([
+      [0.75, "summary"],
+      [1, "summary"],
+    ]);
   });
 
   it("conduction column: one report per column cycle, rising to 1", () => {
@@ -94,8 +102,8 @@ describe("progress of a single run", () => {
       },
       { samples: 20, onProgress: hook },
     );
-    expectRisingToOne(reports, "column", 2);
-    expect(reports.length).toBe(sim.solver.iterations + 1);
+    expectRisingToOne(reports, "column", 3);
+    expect(reports.length).toBe(sim.solver.iterations + 2);
   });
 
   it("map: one report per cell solved (the mirrored half skipped), rising to 1", () => {
@@ -104,7 +112,7 @@ describe("progress of a single run", () => {
     doc.map = { longitudes: 6, latitudes: 4 };
     const { reports, hook } = recorder();
     observeMap(resolveScenario(doc).thermal, { samples: 10, onProgress: hook });
-    expectRisingToOne(reports, "map", 6);
+    expectRisingToOne(reports, "map", 6, false);
     // Cell k reports k/24 before it is solved (k = 1 … 23; cell 0 reports 0, which is not a rise), then 1.
     expect(reports.length).toBe(24);
     expect(reports[0]![0]).toBeCloseTo(1 / 24, 12);
@@ -130,7 +138,7 @@ describe("progress of a single run", () => {
     const { reports, hook } = recorder();
     const sim = simulateZonal(zonal, { onProgress: hook });
     const plain = simulateZonal(zonal);
-    expectRisingToOne(reports, "zonal", 10);
+    expectRisingToOne(reports, "zonal", 10, false);
     // The warm start fills the first half, the cold start the second.
     expect(reports.some(([f]) => f > 0.5 && f < 1)).toBe(true);
     expect(sim.climates.map((c) => c.summary)).toEqual(plain.climates.map((c) => c.summary));
@@ -141,17 +149,22 @@ describe("progress of a single run", () => {
     const { reports, hook } = recorder();
     const comparison = compareRegimes(thermal, ["global", "daynight"], { samples: 40, onProgress: hook });
     expect(comparison.rows.map((row) => row.error)).toEqual([undefined, undefined]);
-    expectRisingToOne(reports, "periodic", 4);
-    // The first regime's passes and its end fall in the first half (its end at exactly 1/2), the second's in the second.
-    const first = comparison.rows[0]!.simulation!.solver.iterations + 1;
+    for (let i = 1; i < reports.length; i++) expect(reports[i]![0]).toBeGreaterThan(reports[i - 1]![0]);
+    expect(reports.at(-1)).toEqual([1, "summary"]);
+    // The first regime's passes, summary and end fall in the first half (its end at exactly 1/2), the second's in the second.
+    const first = comparison.rows[0]!.simulation!.solver.iterations + 2;
     expect(reports.slice(0, first).every(([f]) => f <= 0.5)).toBe(true);
     expect(reports[first - 1]![0]).toBe(0.5);
     expect(reports.slice(first, -1).every(([f]) => f > 0.5 && f < 1)).toBe(true);
   });
 
-  it("the meter: parts map onto the whole, nothing falls, and without a hook nothing is called", () => {
+  it("the meter: phases and their parts map onto the whole, nothing falls, and without a hook nothing is called", () => {
     const { reports, hook } = recorder();
     const meter = new ProgressMeter(hook);
+    meter.phase(0, 0.5);
+    meter.part(0.5, 0.5);
+    meter.report(0.5, "column"); // 0.5 × (0.5 + 0.5 × 0.5)
+    meter.phase(0, 1);
     meter.part(0, 0.5);
     meter.report(0.5, "column");
     meter.report(0.4, "column"); // a fall: not reported
@@ -160,7 +173,7 @@ describe("progress of a single run", () => {
     meter.finish("column");
     meter.finish("column");
     expect(reports).toEqual([
-      [0.25, "column"],
+      [0.375, "column"],
       [0.999, "column"],
       [1, "column"],
     ]);

@@ -21,6 +21,7 @@ const STAGE_WORDS: Record<ProgressStage, string> = {
   column: "conduction column cycles",
   map: "map cells",
   zonal: "zonal climate orbits",
+  summary: "summarising the cycle",
 };
 
 export interface ProgressLine {

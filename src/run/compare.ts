@@ -73,7 +73,7 @@ export function compareRegimes(thermal: ThermalCase, regimes: readonly Regime[],
       throw err;
     }
   });
-  progress.finish(rows.find((row) => row.simulation)?.simulation!.solver.mode ?? "periodic");
+  progress.finish("summary");
   const timeSeconds = Float64Array.from({ length: intervals + 1 }, (_, j) => (spanOrbits * thermal.orbit.periodSeconds * j) / intervals);
   return { rows, timeSeconds, spanOrbits };
 }

@@ -17,7 +17,9 @@ export type ProgressStage =
   /** The cells of a map, one after another. */
   | "map"
   /** The zonal climate's orbits (spin-up, Newton–Krylov, stability check). */
-  | "zonal";
+  | "zonal"
+  /** The converged cycle reduced to its summary and series (a third of a long cycle's run: refined extremes over millions of points). */
+  | "summary";
 
 /**
  * Called with the share of the whole run done (0 to 1, rising from call to call, exactly 1 once at
@@ -36,6 +38,8 @@ const BEFORE_END = 0.999;
  */
 export class ProgressMeter {
   private reported = 0;
+  private phaseBase = 0;
+  private phaseWidth = 1;
   private base = 0;
   private width = 1;
 
@@ -46,7 +50,15 @@ export class ProgressMeter {
     return this.hook !== undefined;
   }
 
-  /** The next reports are shares of the part [from, from + width) of the whole. */
+  /** The run's next phase is [from, from + width) of the whole (the solve, then the summary); its parts divide it. */
+  phase(from: number, width: number): void {
+    this.phaseBase = from;
+    this.phaseWidth = width;
+    this.base = 0;
+    this.width = 1;
+  }
+
+  /** The next reports are shares of the part [from, from + width) of the current phase (a cell, a column, a start). */
   part(from: number, width: number): void {
     this.base = from;
     this.width = width;
@@ -56,7 +68,7 @@ export class ProgressMeter {
   report(local: number, stage: ProgressStage): void {
     if (this.hook === undefined) return;
     const clamped = local > 1 ? 1 : local > 0 ? local : 0;
-    const whole = Math.min(BEFORE_END, this.base + this.width * clamped);
+    const whole = Math.min(BEFORE_END, this.phaseBase + this.phaseWidth * (this.base + this.width * clamped));
     if (whole <= this.reported) return;
     this.reported = whole;
     this.hook(whole, stage);

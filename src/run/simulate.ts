@@ -22,6 +22,13 @@ import { refuseDarkness } from "../scenario/physical.js";
 export type { ProgressHook, ProgressStage };
 export { DEFAULT_RELATIVE_TOLERANCE, DEFAULT_SAMPLES, INTEGRATORS, type IntegratorName, type SolverReport, columnToleranceFor, DEFAULT_COLUMN_TOLERANCE };
 
+/**
+ * The solve's share of a run's progress; the summary takes the rest. Measured on a 1:1000 spin's
+ * 1000-orbit cycle (2 million statistics points): the summary and series took 5-7 s of a 16-23 s
+ * run at load 10, a third; on short cycles it is a few per cent, so the line moves on quickly.
+ */
+const SOLVE_SHARE = 0.75;
+
 export interface SimulateOptions {
   /**
    * Relative tolerance of the temperatures (default 1e-8 for a slab; a column's default is 1e-6,
@@ -111,6 +118,7 @@ export function simulate(thermal: ThermalCase, options: SimulateOptions = {}): S
   }
   const { orbit } = thermal;
   const progress = new ProgressMeter(options.onProgress);
+  progress.phase(0, SOLVE_SHARE);
   const request: CycleRequest = {
     relativeTolerance: rtol,
     startE: eccentricAnomaly(orbit.meanAnomalyAtStartRad, orbit.eccentricity),
@@ -140,8 +148,10 @@ export function simulate(thermal: ThermalCase, options: SimulateOptions = {}): S
   } catch (error) {
     throw explainStepLimit(error, thermal, model, rtol);
   }
+  progress.phase(SOLVE_SHARE, 1 - SOLVE_SHARE);
+  progress.report(0, "summary");
   const simulation = finish(thermal, model, cycle);
-  progress.finish(model.kind === "column" ? "column" : cycle.solver.mode);
+  progress.finish("summary");
   return simulation;
 }
 
