@@ -104,18 +104,18 @@ describe("a sweep's rows", () => {
     const dir = mkdtempSync(join(tmpdir(), "calorbit-sweep-cases-"));
     const scenario = join(dir, "base.json");
     writeFileSync(scenario, JSON.stringify(BASE));
-    // 5 × 5 × 2 = 50 cases: more than a sweep runs in its own thread. An albedo of 1 absorbs
-    // nothing (refused when the case runs); a 2e4 J/m2/K layer on a 30 deg band is fine.
-    const vary = ["orbit.eccentricity=0:0.8:5", "body.heatCapacity=2e4..2e8:5 log", "body.albedo=0.3,1"];
+    // 5 × 10 × 4 = 200 cases: more than a sweep runs in its own thread, and enough for each worker
+    // to run a warm-up case first. An albedo of 1 absorbs nothing (refused when the case runs).
+    const vary = ["orbit.eccentricity=0:0.8:5", "body.heatCapacity=2e4..2e8:10 log", "body.albedo=0.3,0.5,0.7,1"];
     const out = join(dir, "rows.csv");
     const r = await calorbit(["sweep", scenario, ...vary.flatMap((v) => ["--vary", v]), "--workers", "2", "--quiet", "--out", out]);
     expect(r.status).toBe(0);
     const rows = readFileSync(out, "utf8").split("\n").filter((l) => /^\d/.test(l));
     const def: SweepDefinition = { scenario: BASE, design: { axes: vary.map(parseAxis) }, relativeTolerance: 1e-8, format: "csv" };
     const makeCase = caseMaker(def.design);
-    const serial = Array.from({ length: 50 }, (_, id) => formatRow(def, caseCells(def, makeCase(id))));
+    const serial = Array.from({ length: 200 }, (_, id) => formatRow(def, caseCells(def, makeCase(id))));
     expect(rows).toEqual(serial);
-    expect(rows.filter((row) => row.includes(",ok,"))).toHaveLength(25);
-    expect(rows.filter((row) => row.includes("error: "))).toHaveLength(25);
+    expect(rows.filter((row) => row.includes(",ok,"))).toHaveLength(150);
+    expect(rows.filter((row) => row.includes("error: "))).toHaveLength(50);
   });
 });
