@@ -2,7 +2,7 @@
  * One benchmark sweep in its own process (spawned by bench.ts): runs a lumped sweep of the given
  * size with the given workers into a temporary file, then reads the file back and checks it:
  * rows and statuses counted, every row's equilibrium range against its closed form and every
- * row's temperatures inside it. Prints {cases, workers, seconds, maxRssMiB, rows, statuses,
+ * row's temperatures inside it. Prints {cases, workers, seconds, cpuSeconds, maxRssMiB, rows, statuses,
  * worstEquilibriumError, outsideEquilibrium}; time and memory are taken before the file is read.
  */
 import { createReadStream, mkdtempSync, rmSync } from "node:fs";
@@ -30,6 +30,7 @@ if (albedoLevels > 1) axes.push(parseAxis(`body.albedo=0:0.6:${albedoLevels}`));
 const dir = mkdtempSync(join(tmpdir(), "calorbit-bench-"));
 const out = join(dir, "sweep.csv");
 const started = performance.now();
+const cpuBefore = process.cpuUsage();
 await runSweep({
   definition: { scenario, design: { axes }, relativeTolerance: 1e-8, format: "csv" },
   shard: { index: 1, count: 1 },
@@ -38,6 +39,9 @@ await runSweep({
   quiet: true,
 });
 const seconds = (performance.now() - started) / 1000;
+// CPU of every thread (main, workers, the compiler's): what the sweep costs whatever else loads the machine.
+const cpuUsed = process.cpuUsage(cpuBefore);
+const cpuSeconds = (cpuUsed.user + cpuUsed.system) / 1e6;
 const maxRssMiB = process.resourceUsage().maxRSS / 1024;
 
 /** Equilibrium temperature of a global slab at distance a(1 ∓ e) (closed form, common practice), K. */
@@ -90,4 +94,4 @@ for await (const line of createInterface({ input: createReadStream(out, "utf8"),
   if (Number(fields[at.tMin]) < eqMin * (1 - 1e-9) || Number(fields[at.tMax]) > eqMax * (1 + 1e-9)) outsideEquilibrium++;
 }
 rmSync(dir, { recursive: true, force: true });
-console.log(JSON.stringify({ cases, workers, seconds, maxRssMiB, rows, statuses, worstEquilibriumError, outsideEquilibrium }));
+console.log(JSON.stringify({ cases, workers, seconds, cpuSeconds, maxRssMiB, rows, statuses, worstEquilibriumError, outsideEquilibrium }));
