@@ -7,6 +7,7 @@ import { readFileSync } from "node:fs";
 import { join } from "node:path";
 import { describe, expect, it } from "vitest";
 import { SOLAR_LUMINOSITY_W, ASTRONOMICAL_UNIT_M } from "../src/constants.js";
+import { CalorbitError } from "../src/errors.js";
 import type { ThermalCase } from "../src/model/thermalCase.js";
 import { DEFAULT_GRID } from "../src/physics/column.js";
 import { stellarFlux } from "../src/physics/flux.js";
@@ -21,6 +22,12 @@ import { parseScenarioText } from "../src/scenario/text.js";
 import { nominalCase } from "./helpers.js";
 
 type Report = [number, ProgressStage];
+
+/** The bundled map demo (an invented eccentric giant), as a document. */
+function mapDemo(): Record<string, unknown> {
+  const path = join(import.meta.dirname, "..", "scenarios", "oruvane-eccentric.yaml");
+  return parseScenarioText(readFileSync(path, "utf8"), "yaml", path) as Record<string, unknown>;
+}
 
 function recorder(): { reports: Report[]; hook: (fraction: number, stage: ProgressStage) => void } {
   const reports: Report[] = [];
@@ -107,8 +114,7 @@ describe("progress of a single run", () => {
   });
 
   it("map: one report per cell solved (the mirrored half skipped), rising to 1", () => {
-    const path = join(import.meta.dirname, "..", "scenarios", "oruvane-eccentric.yaml");
-    const doc = parseScenarioText(readFileSync(path, "utf8"), "yaml", path) as Record<string, unknown>;
+    const doc = mapDemo();
     doc.map = { longitudes: 6, latitudes: 4 };
     const { reports, hook } = recorder();
     observeMap(resolveScenario(doc).thermal, { samples: 10, onProgress: hook });
@@ -156,6 +162,23 @@ describe("progress of a single run", () => {
     expect(reports.slice(0, first).every(([f]) => f <= 0.5)).toBe(true);
     expect(reports[first - 1]![0]).toBe(0.5);
     expect(reports.slice(first, -1).every(([f]) => f > 0.5 && f < 1)).toBe(true);
+  });
+
+  it("refuses a hook that is not a function as a wrong argument (one line naming onProgress), never a TypeError mid-run", () => {
+    for (const run of [
+      () => simulate(nominalCase({}), { onProgress: 5 as never }),
+      () => observeMap(resolveScenario({ ...mapDemo(), map: { longitudes: 4, latitudes: 2 } }).thermal, { onProgress: "yes" as never }),
+    ]) {
+      let caught: unknown;
+      try {
+        run();
+      } catch (error) {
+        caught = error;
+      }
+      expect(caught).toBeInstanceOf(CalorbitError);
+      expect((caught as CalorbitError).code).toBe("INVALID_ARGUMENT");
+      expect((caught as CalorbitError).problems.map((p) => p.path)).toEqual(["onProgress"]);
+    }
   });
 
   it("the meter: phases and their parts map onto the whole, nothing falls, and without a hook nothing is called", () => {

@@ -4,6 +4,8 @@
  * never inside a step or a right-hand side. Pure: no I/O, no clock; showing it is the caller's job.
  */
 
+import { CalorbitError, describeValue } from "../errors.js";
+
 /** What the solve is doing when it reports. */
 export type ProgressStage =
   /** Shooting toward the periodic state of a slab (each pass integrates the whole cycle). */
@@ -28,6 +30,15 @@ export type ProgressStage =
  * count, never falling and never reaching 1 before the end.
  */
 export type ProgressHook = (fraction: number, stage: ProgressStage) => void;
+
+/** A hook given by a library caller: a function or nothing (anything else is a wrong argument, not a TypeError later). */
+export function checkProgressHook(hook: unknown): void {
+  if (hook !== undefined && typeof hook !== "function") {
+    throw new CalorbitError("INVALID_ARGUMENT", "onProgress is not a function", [
+      { path: "onProgress", given: describeValue(hook), allowed: "a function (fraction, stage) => void, or nothing" },
+    ]);
+  }
+}
 
 /** Shares below 1 are capped here until the run ends, so that 1 means "done". */
 const BEFORE_END = 0.999;

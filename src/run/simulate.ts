@@ -16,7 +16,7 @@ import type { ColumnCycleExtras, ConvergedCycle, CycleRequest, SolverReport } fr
 import { isDark, slabCycle } from "./slabCycle.js";
 import { PERIODIC_METHODS, type PeriodicMethod } from "../solve/periodicKrylov.js";
 import { checkWorkload, explainStepLimit } from "./workload.js";
-import { ProgressMeter, type ProgressHook, type ProgressStage } from "./progress.js";
+import { checkProgressHook, ProgressMeter, type ProgressHook, type ProgressStage } from "./progress.js";
 import { refuseDarkness } from "../scenario/physical.js";
 
 export type { ProgressHook, ProgressStage };
@@ -113,9 +113,7 @@ export function simulate(thermal: ThermalCase, options: SimulateOptions = {}): S
     requireNumber("from", options.transient.startK, (t) => t > 0, "a temperature > 0 K");
     requireNumber("orbits", options.transient.orbits, (k) => Number.isInteger(k) && k >= 1 && k <= 100_000, "an integer from 1 to 100,000");
   }
-  if (options.onProgress !== undefined && typeof options.onProgress !== "function") {
-    throw new CalorbitError("INVALID_ARGUMENT", "onProgress is not a function", [{ path: "onProgress", given: describeValue(options.onProgress), allowed: "a function (fraction, stage) => void, or nothing" }]);
-  }
+  checkProgressHook(options.onProgress);
   const { orbit } = thermal;
   const progress = new ProgressMeter(options.onProgress);
   progress.phase(0, SOLVE_SHARE);

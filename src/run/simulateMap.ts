@@ -13,7 +13,7 @@ import { LumpedBalance } from "../physics/energyBalance.js";
 import { CellBudget, cellForcing, lonLatGrid, MapIllumination, StarInCellFrame, type CellFrame, type MapBody, type MapSurface } from "../physics/surfaceGrid.js";
 import { chooseIntegrator, integrateCycle, plainOdeTolerance, solvePeriodic } from "../solve/periodic.js";
 import { addWork, emptyWork, type SolverWork } from "../solve/system.js";
-import { ProgressMeter, type ProgressHook } from "./progress.js";
+import { checkProgressHook, ProgressMeter, type ProgressHook } from "./progress.js";
 
 const TWO_PI = 2 * Math.PI;
 export { MAP_DEFAULT_TOLERANCE };
@@ -188,6 +188,7 @@ export function simulateMap(c: MapCase, options: MapOptions = {}): MapSimulation
   // and its mirror across the equator see the same sunlight: solve the northern rows and copy.
   const mirrored = Math.abs(Math.sin(frame.obliquityRad)) < 1e-15;
   const { longitudes, latitudes } = grid;
+  checkProgressHook(options.onProgress);
   const progress = new ProgressMeter(options.onProgress);
   for (let k = 0; k < cells; k++) {
     progress.report(k / cells, "map");

@@ -19,7 +19,7 @@ import { eccentricAnomaly } from "../physics/kepler.js";
 import { checkOrbit, meanMotion, type Orbit } from "../physics/orbit.js";
 import { solveZonalPeriodic } from "../solve/zonalPeriodic.js";
 import { ZonalStepper, type CycleRecord, type StepGrid, type ZonalSystem } from "../solve/zonalStepper.js";
-import { estimatedShare, ProgressMeter, type ProgressHook } from "./progress.js";
+import { checkProgressHook, estimatedShare, ProgressMeter, type ProgressHook } from "./progress.js";
 
 /** Default habitable window, K: liquid water at one bar (Spiegel et al. 2008's measure uses 273–373 K). */
 const HABITABLE_WINDOW_K = { lowK: ZERO_CELSIUS_K, highK: ZERO_CELSIUS_K + 100 };
@@ -141,6 +141,7 @@ export function simulateZonal(input: ZonalCase, options: ZonalOptions = {}): Zon
   };
   const climates: ZonalClimate[] = [];
   let steps: StepGrid | null = null;
+  checkProgressHook(options.onProgress);
   const progress = new ProgressMeter(options.onProgress);
   const onOrbit = progress.active ? (orbits: number) => progress.report(estimatedShare(orbits, TYPICAL_ZONAL_ORBITS), "zonal") : undefined;
   for (const [index, start] of starts.entries()) {
