@@ -12,6 +12,8 @@ import { progressLine, SHOW_AFTER_MS } from "../src/cli/progressLine.js";
 import { main } from "../dist/src/cli/program.js";
 
 /** Captured streams; `terminal` says whether stderr claims to be a TTY. */
+let width: number | undefined;
+
 function streams(terminal: boolean): OutputStreams & { stdout: string; stderr: string } {
   const s = {
     stdout: "",
@@ -19,6 +21,7 @@ function streams(terminal: boolean): OutputStreams & { stdout: string; stderr: s
     out: (text: string) => void (s.stdout += text),
     err: (text: string) => void (s.stderr += text),
     errIsTerminal: () => terminal,
+    errColumns: () => width,
   };
   return s;
 }
@@ -26,7 +29,10 @@ function streams(terminal: boolean): OutputStreams & { stdout: string; stderr: s
 /** ECMA-48: carriage return, then erase to the end of the line (EL, CSI K). */
 const ERASE = "\r\u001b[K";
 
-afterEach(() => vi.restoreAllMocks());
+afterEach(() => {
+  vi.restoreAllMocks();
+  width = undefined;
+});
 
 describe("the progress line", () => {
   it("on a terminal: silent for the first second, then drawn, throttled, and erased at the end", async () => {
@@ -47,11 +53,15 @@ describe("the progress line", () => {
       clock += 100;
       line.hook!(0.9, "column");
       expect(s.stderr.endsWith(`${ERASE}calorbit run: conduction column cycles  90 %  1.4 s`)).toBe(true);
+      clock += 100;
+      width = 30; // a narrow terminal: the line is cut to 29 characters, so it never wraps
+      line.hook!(0.95, "column");
+      expect(s.stderr.endsWith(`${ERASE}calorbit run: conduction colu`)).toBe(true);
       line.hook!(1, "column"); // the end is not drawn: the line is erased
       line.close();
       line.close();
-      expect(s.stderr.endsWith(`s${ERASE}`)).toBe(true);
-      expect(s.stderr.split(ERASE)).toHaveLength(4);
+      expect(s.stderr.endsWith(`calorbit run: conduction colu${ERASE}`)).toBe(true);
+      expect(s.stderr.split(ERASE)).toHaveLength(5);
     });
     expect(s.stdout).toBe("");
   });

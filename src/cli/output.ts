@@ -11,12 +11,15 @@ export interface OutputStreams {
   err(text: string): void;
   /** True when stderr is a terminal (progress lines are drawn only there); absent: not a terminal. */
   errIsTerminal?(): boolean;
+  /** The terminal's width in characters, when known (a progress line is cut to fit, so it never wraps). */
+  errColumns?(): number | undefined;
 }
 
 export const processStreams: OutputStreams = {
   out: (text) => void process.stdout.write(text),
   err: (text) => void process.stderr.write(text),
   errIsTerminal: () => process.stderr.isTTY === true,
+  errColumns: () => process.stderr.columns,
 };
 
 let current: OutputStreams = processStreams;
@@ -34,6 +37,11 @@ export function err(text: string): void {
 /** True when the current stderr is a terminal (logs, pipes and CI are not). */
 export function errIsTerminal(): boolean {
   return current.errIsTerminal?.() === true;
+}
+
+/** The current stderr terminal's width, when known. */
+export function errColumns(): number | undefined {
+  return current.errColumns?.();
 }
 
 /** One warning line on stderr: `calorbit: warning: …`. */

@@ -5,7 +5,7 @@
  * fails, so that what follows on stderr starts on a clean line. Never writes to stdout.
  */
 import type { ProgressHook, ProgressStage } from "../run/progress.js";
-import { err, errIsTerminal } from "./output.js";
+import { err, errColumns, errIsTerminal } from "./output.js";
 
 /** The work must have lasted this long before the line appears, ms. */
 export const SHOW_AFTER_MS = 1000;
@@ -55,7 +55,10 @@ export function progressLine(label: string, options: ProgressLineOptions = {}): 
     lastDraw = t;
     drawn = true;
     const percent = Math.floor(100 * Math.max(0, fraction));
-    err(`${ERASE}calorbit ${label}: ${words} ${String(percent).padStart(3)} %  ${((t - started) / 1000).toFixed(1)} s`);
+    const text = `calorbit ${label}: ${words} ${String(percent).padStart(3)} %  ${((t - started) / 1000).toFixed(1)} s`;
+    // Cut to the terminal's width less one: a line that wrapped could not be erased by one carriage return.
+    const columns = errColumns();
+    err(ERASE + (columns !== undefined && columns > 1 && text.length >= columns ? text.slice(0, columns - 1) : text));
   };
   return {
     update,
