@@ -88,17 +88,16 @@ export class LumpedBalance implements OdeSystem {
       if (this.forcing.absorbedAt(x0 + ((j + 0.5) / DARK_PROBES) * (x1 - x0)) !== 0) return false;
     }
     const t0 = this.timeAt(x0);
+    const g0 = this.unlit.invariant(start);
+    const rate = this.unlit.invariantRate;
     if (samples) {
       const { xs, ys, components } = samples;
-      let previous = start;
       for (let k = 0; k < xs.length; k++) {
         const x = Math.min(xs[k]!, x1); // the last arc's samples may lie a rounding hair past its end
-        const value = x <= x0 ? start : this.unlit.after(start, this.timeAt(x) - t0, previous);
-        ys[k * components] = value;
-        previous = value;
+        ys[k * components] = x <= x0 ? start : this.unlit.temperatureAt(g0 + rate * (this.timeAt(x) - t0), start);
       }
     }
-    y[0] = this.unlit.after(start, this.timeAt(x1) - t0);
+    y[0] = this.unlit.temperatureAt(g0 + rate * (this.timeAt(x1) - t0), start);
     return true;
   }
 

@@ -63,35 +63,49 @@ export class UnlitCooling {
     return -2 / ((t2 - a2) * (t2 + a2));
   }
 
+  /** dG/dt along the flow: 2εσ/C, K⁻³ s⁻¹ (G(T(t)) = G(T₀) + rate·t). */
+  get invariantRate(): number {
+    return this.rate;
+  }
+
   /**
    * T after `seconds` of darkness from T₀ > a, K; NaN where T₀ is not above a (a body warming
-   * toward its internal-flux floor is left to the integrator). `guessK`, a temperature between
-   * the answer and T₀ (a nearby earlier answer), saves iterations.
+   * toward its internal-flux floor is left to the integrator).
    */
-  after(startK: number, seconds: number, guessK = startK): number {
-    const a = this.floorK;
-    if (!(startK > a * (1 + 1e-6)) || !(seconds >= 0)) return Number.NaN;
+  after(startK: number, seconds: number): number {
+    if (!(startK > this.floorK * (1 + 1e-6)) || !(seconds >= 0)) return Number.NaN;
     if (seconds === 0) return startK;
-    const target = this.invariant(startK) + this.rate * seconds;
-    // The q = 0 law 2/(3T³) = target bounds the answer from below (every series term is positive).
+    return this.temperatureAt(this.invariant(startK) + this.rate * seconds, startK);
+  }
+
+  /**
+   * The temperature T > a with G(T) = `target`, K, given a temperature `aboveK` at or above it (the
+   * night's start). The q = 0 law 2/(3T³) = target bounds it from below (every series term is
+   * positive); the series' next term corrects that bound to within ~v²; Newton's method, kept
+   * inside the bracket, then converges quadratically and stops once its step is below 1e-8 of
+   * T − a (the next error then below 1e-16 of it).
+   */
+  temperatureAt(target: number, aboveK: number): number {
+    const a = this.floorK;
     let lo = Math.max(a, Math.cbrt(2 / (3 * target)));
     if (a === 0) return lo; // exact: G = 2/(3T³)
-    // G falls as T rises: g(T) = G(T) − target is > 0 below the answer and < 0 above it. The start
-    // is above it; so is an earlier answer of the same night, which makes a tighter top.
-    let hi = startK;
-    if (guessK > lo && guessK < startK) {
-      if (this.invariant(guessK) <= target) hi = guessK;
-      else lo = guessK;
-    }
-    let t = lo > a ? lo : 0.5 * (a + hi);
+    let hi = aboveK;
+    const u = a / lo;
+    let t = u < SERIES_LIMIT ? Math.min(hi, lo * (1 + (u * u * u * u) / 7)) : 0.5 * (lo + hi);
     for (let i = 0; i < MAX_NEWTON; i++) {
       const g = this.invariant(t) - target; // > 0 below the answer, < 0 above it
       if (g > 0) lo = t;
-      else hi = t;
-      let next = t - g / this.slope(t);
-      if (!(next > lo && next < hi)) next = 0.5 * (lo + hi);
-      if (Math.abs(next - t) <= 4e-16 * t || hi - lo <= 4e-16 * hi) return next;
-      t = next;
+      else if (g < 0) hi = t;
+      else return t;
+      const step = g / this.slope(t);
+      const next = t - step;
+      if (next > lo && next < hi) {
+        if (Math.abs(step) <= 1e-8 * (t - a) || Math.abs(step) <= 4e-16 * t) return next;
+        t = next;
+      } else {
+        t = 0.5 * (lo + hi);
+      }
+      if (hi - lo <= 4e-16 * hi) return t;
     }
     return t;
   }

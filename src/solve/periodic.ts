@@ -44,6 +44,15 @@ export const CORNER_ODE_TOLERANCE_SHARE = 1e-4;
  * with the corners inside steps.
  */
 export const ARC_ODE_TOLERANCE_SHARE = 1e-3;
+/**
+ * Share when the corners are step ends and the system crosses its dark arcs exactly (`exactArc`:
+ * a point's nights in closed form), so only the days are stepped and the night minimum no longer
+ * carries a stepped night's error. Measured on ten points (365, 1000 and 20 solar days per orbit,
+ * the 3:2 resonant rock at both poles, latitudes 40°–85° at obliquities 20°–30°, a 2 cm skin)
+ * against runs at share 1e-5: share 3e-3 left the mean, minimum and maximum within 8e-10 at rtol
+ * 1e-8 (1e-3 within 3e-10, 1e-2 within 2.8e-9), at 17 % fewer evaluations than 1e-3.
+ */
+export const EXACT_NIGHT_ODE_TOLERANCE_SHARE = 3e-3;
 /** Share for a plain integration (transient, seasonal): no periodicity defect to leave room for. */
 const PLAIN_ODE_TOLERANCE_SHARE = 0.1;
 export const CONVERGENCE_SHARE = 0.1;
@@ -356,7 +365,8 @@ export function solvePeriodic(problem: PeriodicProblem, options: PeriodicOptions
   const jacobianOfG = new Float64Array(n * n);
   const work = emptyWork();
   const monodromy = new Float64Array(n).fill(1);
-  const share = corners ? CORNER_ODE_TOLERANCE_SHARE : problem.breakpoints && problem.breakpoints.length > 0 ? ARC_ODE_TOLERANCE_SHARE : ODE_TOLERANCE_SHARE;
+  const arcShare = base.exactArc ? EXACT_NIGHT_ODE_TOLERANCE_SHARE : ARC_ODE_TOLERANCE_SHARE;
+  const share = corners ? CORNER_ODE_TOLERANCE_SHARE : problem.breakpoints && problem.breakpoints.length > 0 ? arcShare : ODE_TOLERANCE_SHARE;
   const finalToleranceFor = (memory: number): number => Math.max(FINEST_ODE_TOLERANCE, share * rtol * memory);
   // 1 − Φ', the smallest over the states: estimated, then measured on every pass.
   let memory = Math.min(1, Math.max(problem.memoryEstimate ?? 1, 1e-6));
