@@ -3,7 +3,7 @@
  * point with 20 solar days per orbit under a thin skin (radiative time about a quarter of a day).
  */
 import { describe, expect, it } from "vitest";
-import { ASTRONOMICAL_UNIT_M, SOLAR_LUMINOSITY_W } from "../src/constants.js";
+import { ASTRONOMICAL_UNIT_M, SOLAR_LUMINOSITY_W, STEFAN_BOLTZMANN } from "../src/constants.js";
 import { LumpedBalance } from "../src/physics/energyBalance.js";
 import { pointForcing } from "../src/physics/forcing.js";
 import type { Orbit } from "../src/physics/orbit.js";
@@ -68,5 +68,20 @@ describe("periodic shooting on a map that contracts strongly", () => {
     // Here the long nights sit near their floor and cost the stepper little (86 % of the evaluations
     // remain); with 365 solar days per orbit the nights were 36 % of the steps.
     expect(exact.result.work.evaluations).toBeLessThan(0.9 * reference.result.work.evaluations);
+  });
+
+  it("leaves an arc with any starlight to the integrator, touching nothing, and crosses a dark one with the T⁻³ law when q = 0", () => {
+    const day = Array.from(breakpoints).findIndex((_, i) => i + 1 < breakpoints.length && forcing.absorbedAt(0.5 * (breakpoints[i]! + breakpoints[i + 1]!)) > 0);
+    const [x0, x1] = [breakpoints[day]!, breakpoints[day + 1]!];
+    const y = Float64Array.of(250);
+    expect(balance.exactArc(x0, x1, y)).toBe(false);
+    expect(y[0]).toBe(250);
+    // A night without internal heat: T(t) = T₀ (1 + 3εσT₀³t/C)^(−1/3) (derived), t from Kepler's equation.
+    const cold = new LumpedBalance(orbit, { albedo: 0.1, emissivity: 0.95, heatCapacityJPerM2K: 1e5, internalFluxWPerM2: 0 }, forcing);
+    const [n0, n1] = [breakpoints[day + 1]!, breakpoints[day + 2]!];
+    const seconds = (n1 - 0.1 * Math.sin(n1) - (n0 - 0.1 * Math.sin(n0))) / n;
+    const z = Float64Array.of(250);
+    expect(cold.exactArc(n0, n1, z)).toBe(true);
+    expect(Math.abs(z[0]! / (250 * (1 + (3 * 0.95 * STEFAN_BOLTZMANN * 250 ** 3 * seconds) / 1e5) ** (-1 / 3)) - 1)).toBeLessThan(1e-13);
   });
 });
