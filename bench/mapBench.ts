@@ -2,8 +2,8 @@
  * The map regime's benchmark figures (called by bench/bench.ts; also runnable alone with
  * `node dist/bench/mapBench.js`): a 36 × 18 map with heat capacity to its periodic state with a
  * 1,000-point phase curve (target < 1 s on one core), and the phase curve re-evaluated for a new
- * inclination and for a new passband without a new solve (target < 20 ms each; the passband's figure
- * is the median over seven new passbands, as a viewer's slider makes them).
+ * inclination and for a new passband without a new solve (target < 20 ms each; each figure is the
+ * median over seven new inclinations or passbands, as a viewer's slider makes them).
  * Answers are checked against closed forms: the sphere's orbit-mean absorbed flux
  * (1 − A) L / (16π a² √(1 − e²)) (Williams & Pollard 2002, eq. 3, with the sphere's factor 1/4)
  * and the emitted flux equal to it at the periodic state.
@@ -84,12 +84,18 @@ export function mapFigures(): { figures: Figure[]; wrong: string[] } {
   if (!(Math.abs(sim.energy.residual) < 1e-7)) wrong.push(`map energy residual ${sim.energy.residual}`);
   const first = phaseCurveSummary(sim.history, curve);
 
+  // A new inclination as the viewer's slider makes one (the band's table already built): the median of
+  // seven, like the passband's figure, so one descheduled moment on a shared machine does not make it.
   const table = bandTable(sim.history, telescope.band);
-  const t1 = performance.now();
-  const tilted = phaseCurve(sim.history, { ...telescope, observer: { ...telescope.observer, inclinationRad: (60 * Math.PI) / 180 } }, table);
-  const inclinationMs = performance.now() - t1;
-  const tiltedMax = phaseCurveSummary(sim.history, tilted).maxFluxRatio;
-  if (!(tiltedMax > 0 && tiltedMax < first.maxFluxRatio)) wrong.push(`map: a less inclined orbit should see a lower maximum (${tiltedMax} against ${first.maxFluxRatio})`);
+  const inclinationTimes: number[] = [];
+  for (const degrees of [60, 80, 70, 50, 40, 30, 20]) {
+    const t1 = performance.now();
+    const tilted = phaseCurve(sim.history, { ...telescope, observer: { ...telescope.observer, inclinationRad: (degrees * Math.PI) / 180 } }, table);
+    inclinationTimes.push(performance.now() - t1);
+    const tiltedMax = phaseCurveSummary(sim.history, tilted).maxFluxRatio;
+    if (!(tiltedMax > 0 && tiltedMax < first.maxFluxRatio)) wrong.push(`map: a less inclined orbit (${degrees} deg) should see a lower maximum (${tiltedMax} against ${first.maxFluxRatio})`);
+  }
+  const inclinationMs = [...inclinationTimes].sort((x, y) => x - y)[Math.floor(inclinationTimes.length / 2)]!;
 
   // A new passband as the viewer's sliders make one: a new BandRadiance, then the phase curve. Each
   // passband is new (nothing cached); the median of seven is the figure, the first is shown beside it
@@ -126,7 +132,14 @@ export function mapFigures(): { figures: Figure[]; wrong: string[] } {
     wrong,
     figures: [
       { name: "map 36x18 periodic state + 1000-point phase curve", value: solveSeconds, unit: "s", target: "< 1 s", met: solveSeconds < 1, details: `${sim.work.evaluations} evaluations` },
-      { name: "map phase curve for a new inclination (no new solve)", value: inclinationMs, unit: "ms", target: "< 20 ms", met: inclinationMs < 20 },
+      {
+        name: "map phase curve for a new inclination (no new solve)",
+        value: inclinationMs,
+        unit: "ms",
+        target: "< 20 ms",
+        met: inclinationMs < 20,
+        details: `median of ${inclinationTimes.length} new inclinations, 20-80 deg; the first ${inclinationTimes[0]!.toFixed(1)} ms`,
+      },
       {
         name: "map phase curve for a new passband (no new solve)",
         value: passbandMs,
