@@ -21,6 +21,32 @@ import { setPath } from "./spec.js";
 
 type Plain = Record<string, unknown>;
 
+/** A value a key's schema refused. */
+const REFUSED = Symbol("refused");
+type LeafParse = unknown;
+
+/** Levels remembered per axis: a grid's axis repeats its few levels in every case, a hypercube's never does. */
+const LEVELS_REMEMBERED = 4096;
+
+/**
+ * A key's parse of one axis value, remembered: the schema's parse of a number or a text is a pure
+ * function of it, and a grid repeats each level in many cases. Only a result that is itself a number
+ * or a text is kept (a case may not share an object with another).
+ */
+function leafParse(schema: z.ZodType, levels: Map<unknown, LeafParse>, value: unknown): LeafParse {
+  const known = levels.get(value);
+  if (known !== undefined) return known;
+  const result = schema.safeParse(value);
+  const parsed = result.success ? result.data : REFUSED;
+  // −0 and 0 are one key of a Map but may parse to different zeros: −0 is never remembered.
+  const rememberable = typeof value === "string" || (typeof value === "number" && !Object.is(value, -0));
+  if (rememberable && (parsed === REFUSED || typeof parsed === "number" || typeof parsed === "string")) {
+    if (levels.size >= LEVELS_REMEMBERED) levels.clear();
+    levels.set(value, parsed);
+  }
+  return parsed;
+}
+
 const isPlain = (v: unknown): v is Plain => v !== null && typeof v === "object" && !Array.isArray(v);
 
 /** The object schema inside an optional, or null when the schema is no plain object (or has object-level checks). */
@@ -58,7 +84,7 @@ export function caseScenarios(scenario: Plain, paths: readonly string[]): CaseSc
   const parsedBase = scenarioSchema.safeParse(base);
   if (!parsedBase.success) return null;
   const parsed = deepFreeze(parsedBase.data) as unknown as Plain;
-  const leaves: { keys: string[]; schema: z.ZodType }[] = [];
+  const leaves: { keys: string[]; schema: z.ZodType; parsed: Map<unknown, LeafParse> }[] = [];
   for (const path of paths) {
     const keys = path.split(".");
     let schema: z.ZodObject = scenarioSchema;
@@ -74,7 +100,7 @@ export function caseScenarios(scenario: Plain, paths: readonly string[]): CaseSc
     }
     const leaf = schema.shape[keys.at(-1)!] as z.ZodType | undefined;
     if (!leaf) return null;
-    leaves.push({ keys, schema: leaf });
+    leaves.push({ keys, schema: leaf, parsed: new Map() });
   }
 
   const document = (values: readonly AxisValue[]): Plain => {
@@ -113,7 +139,7 @@ export function caseScenarios(scenario: Plain, paths: readonly string[]): CaseSc
     const doc = document(values);
     const out: Plain = { ...parsed };
     for (let d = 0; d < leaves.length; d++) {
-      const { keys, schema } = leaves[d]!;
+      const { keys, schema, parsed: parsedLevels } = leaves[d]!;
       let rawNode: Plain = doc;
       let baseRaw: Plain = base;
       let node = out;
@@ -127,9 +153,9 @@ export function caseScenarios(scenario: Plain, paths: readonly string[]): CaseSc
         // Keys the case's document dropped (replaced by the axis's key) are gone from its parse too.
         for (const k of Object.keys(baseRaw)) if (!(k in rawNode)) delete node[k];
       }
-      const result = schema.safeParse(rawNode[keys.at(-1)!]);
-      if (!result.success) return null;
-      node[keys.at(-1)!] = result.data;
+      const result = leafParse(schema, parsedLevels, rawNode[keys.at(-1)!]);
+      if (result === REFUSED) return null;
+      node[keys.at(-1)!] = result;
     }
     return fromParsed(out as unknown as ParsedScenario, doc).thermal;
   }
