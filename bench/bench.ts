@@ -104,6 +104,25 @@ function medianMs(run: () => void, repeats: number, warm: number): number {
   return times[Math.floor(times.length / 2)]!;
 }
 
+/**
+ * Medians of several paths timed in turn (one run of each per round, after `warm` rounds), so that
+ * no path is timed while the compiler still works on code the next one shares: timed one after
+ * the other, the summary-only slab was once measured before its code was optimised and the
+ * default series after, and their ratio moved between 1.2x and 2.9x from run to run.
+ */
+function interleavedMediansMs(runs: (() => void)[], repeats: number, warm: number): number[] {
+  for (let i = 0; i < warm; i++) for (const run of runs) run();
+  const times = runs.map(() => [] as number[]);
+  for (let i = 0; i < repeats; i++) {
+    runs.forEach((run, r) => {
+      const t0 = performance.now();
+      run();
+      times[r]!.push(performance.now() - t0);
+    });
+  }
+  return times.map((t) => t.sort((a, b) => a - b)[Math.floor(t.length / 2)]!);
+}
+
 const fmt = (x: number, digits = 3) => (x >= 100 ? x.toFixed(0) : x >= 10 ? x.toFixed(1) : x.toPrecision(digits));
 const summaryOnly = { relativeTolerance: 1e-8, samples: 0 };
 
@@ -112,9 +131,11 @@ console.log(`calorbit benchmark (${quick ? "quick" : "full"} mode), Node.js ${pr
 // 1. The periodic slab, summary only, and its slow-memory and default-series variants.
 const slab = slabCase(0.5, 1);
 const slab100 = slabCase(0.5, 100);
-const slabMs = medianMs(() => simulate(slab, summaryOnly), quick ? 200 : 400, 50);
-const slowMs = medianMs(() => simulate(slab100, summaryOnly), quick ? 200 : 400, 50);
-const seriesMs = medianMs(() => simulate(slab), quick ? 100 : 300, 20);
+const [slabMs, slowMs, seriesMs] = interleavedMediansMs(
+  [() => simulate(slab, summaryOnly), () => simulate(slab100, summaryOnly), () => simulate(slab)],
+  quick ? 200 : 400,
+  50,
+) as [number, number, number];
 {
   const sim = simulate(slab, summaryOnly);
   checkAgainstStored("slab", "slab", sim);
