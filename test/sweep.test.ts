@@ -250,6 +250,19 @@ describe("calorbit sweep", () => {
     expect(Number(rows[1]!.deep_mean_K)).toBeLessThan(Number(rows[0]!.deep_mean_K));
   });
 
+  it("keeps an explicit --tolerance 1e-8 for a conduction column, as run does (it was taken for 'not given' and replaced by 1e-6)", async () => {
+    const column = join(import.meta.dirname, "..", "scenarios", "sarvek-regolith.yaml");
+    const out = join(dir, "column-tight.csv");
+    const r = await sweep(column, "--vary", "body.albedo=0.11", "--tolerance", "1e-8", "--quiet", "--out", out);
+    expect(r.status).toBe(0);
+    const header = readFileSync(out, "utf8").split("\n").find((l) => l.startsWith("case_id"))!.split(",");
+    const row = Object.fromEntries(rowsOf(out)[0]!.split(",").map((v, i) => [header[i]!, v]));
+    const run = JSON.parse((await calorbit(["run", column, "--json", "--tolerance", "1e-8"])).stdout) as { summary: { temperature: { minK: number; meanK: number } }; solver: { iterations: number } };
+    expect(Number(row.temperature_min_K)).toBe(run.summary.temperature.minK);
+    expect(Number(row.temperature_mean_K)).toBe(run.summary.temperature.meanK);
+    expect(Number(row.iterations)).toBe(run.solver.iterations);
+  });
+
   it("tells a user whose shell split off a log range's \"log\" to quote it", async () => {
     const r = await sweep(scenario, "--vary", "body.heatCapacity=1e7..1e9:3", "log", "--quiet");
     expect(r.status).toBe(2);

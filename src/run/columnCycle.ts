@@ -23,14 +23,6 @@ export { DEFAULT_COLUMN_TOLERANCE };
 /** Cycles a column typically steps to its periodic state, for the progress estimate only (the bench column: 8-9). */
 const TYPICAL_COLUMN_CYCLES = 9;
 
-/**
- * The column tolerance for a command's tolerance setting: the column default when the slab default
- * (1e-8) was left alone, else what was asked, no finer than 1e-12.
- */
-export function columnToleranceFor(requested: number, slabDefault: number): number {
-  return requested === slabDefault ? DEFAULT_COLUMN_TOLERANCE : Math.max(requested, 1e-12);
-}
-
 /** Most fixed steps in one column cycle (a cap: more would be refused by the workload check first at any usual depth). */
 export const MAX_COLUMN_STEPS_PER_CYCLE = 2_000_000;
 

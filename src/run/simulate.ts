@@ -11,7 +11,7 @@ import { buildThermalModel, type ThermalModel } from "../model/build.js";
 import { REGIMES, type ThermalCase } from "../model/thermalCase.js";
 import { eccentricAnomaly } from "../physics/kepler.js";
 import { DEFAULT_RELATIVE_TOLERANCE, DEFAULT_SAMPLES, INTEGRATORS, type IntegratorName } from "../defaults.js";
-import { columnCycle, columnToleranceFor, DEFAULT_COLUMN_TOLERANCE } from "./columnCycle.js";
+import { columnCycle, DEFAULT_COLUMN_TOLERANCE } from "./columnCycle.js";
 import type { ColumnCycleExtras, ConvergedCycle, CycleRequest, SolverReport } from "./cycle.js";
 import { isDark, slabCycle } from "./slabCycle.js";
 import { PERIODIC_METHODS, type PeriodicMethod } from "../solve/periodicKrylov.js";
@@ -20,7 +20,7 @@ import { checkProgressHook, ProgressMeter, type ProgressHook, type ProgressStage
 import { refuseDarkness } from "../scenario/physical.js";
 
 export type { ProgressHook, ProgressStage };
-export { DEFAULT_RELATIVE_TOLERANCE, DEFAULT_SAMPLES, INTEGRATORS, type IntegratorName, type SolverReport, columnToleranceFor, DEFAULT_COLUMN_TOLERANCE };
+export { DEFAULT_RELATIVE_TOLERANCE, DEFAULT_SAMPLES, INTEGRATORS, type IntegratorName, type SolverReport, DEFAULT_COLUMN_TOLERANCE };
 
 /**
  * The solve's share of a run's progress; the summary takes the rest. Measured on a 1:1000 spin's

@@ -6,7 +6,7 @@
 import { DAY_S } from "../constants.js";
 import { CalorbitError, formatProblem } from "../errors.js";
 import { resolveScenario } from "../scenario/resolve.js";
-import { columnToleranceFor, DEFAULT_RELATIVE_TOLERANCE, simulate } from "../run/simulate.js";
+import { DEFAULT_COLUMN_TOLERANCE, simulate } from "../run/simulate.js";
 import { heatStoreOf } from "../model/heatStore.js";
 import type { ThermalCase } from "../model/thermalCase.js";
 import { REGIME_TABLE } from "../model/regimes.js";
@@ -18,6 +18,9 @@ import type { CaseValues, Design, Shard } from "./design.js";
 import { caseScenarios } from "./caseScenario.js";
 import { columnValue, setPath } from "./spec.js";
 
+/** The finest tolerance a conduction column takes (its solver's floor); a finer one given for a sweep is raised to it. */
+const MIN_COLUMN_TOLERANCE = 1e-12;
+
 export type SweepFormat = "csv" | "jsonl" | "parquet";
 
 /** One cell of an output row. */
@@ -28,6 +31,12 @@ export interface SweepDefinition {
   scenario: Record<string, unknown>;
   design: Design;
   relativeTolerance: number;
+  /**
+   * Set when --tolerance was given: a conduction column then takes it as asked; without it a column
+   * takes its own default (1e-6), not the slab's 1e-8 held in relativeTolerance. Absent otherwise, so
+   * the definitions (and resumable files) of sweeps without --tolerance are as they were.
+   */
+  toleranceGiven?: true;
   format: SweepFormat;
 }
 
@@ -110,6 +119,7 @@ export function fingerprint(def: SweepDefinition): string {
     axes: def.design.axes.map((a) => ({ path: a.path, spec: a.spec })),
     random: def.design.random ?? null,
     tolerance: def.relativeTolerance,
+    ...(def.toleranceGiven ? { toleranceGiven: true } : {}),
     format: def.format,
   });
 }
@@ -181,9 +191,10 @@ function failureReason(err: unknown): string {
  * A conduction column has no single τ (tau_over_period empty) and fills the skin depths and the
  * deepest layer's mean; its "iterations" are the cycles run to the periodic state.
  */
-function metricsOf(thermal: ThermalCase, relativeTolerance: number): Metrics {
+function metricsOf(thermal: ThermalCase, def: SweepDefinition): Metrics {
   const column = heatStoreOf(thermal).kind === "column";
-  const sim = simulate(thermal, { relativeTolerance: column ? columnToleranceFor(relativeTolerance, DEFAULT_RELATIVE_TOLERANCE) : relativeTolerance, samples: 0 });
+  const columnTolerance = def.toleranceGiven ? Math.max(def.relativeTolerance, MIN_COLUMN_TOLERANCE) : DEFAULT_COLUMN_TOLERANCE;
+  const sim = simulate(thermal, { relativeTolerance: column ? columnTolerance : def.relativeTolerance, samples: 0 });
   const s = sim.summary;
   return {
     temperature_min_K: s.temperature.minK,
@@ -321,12 +332,12 @@ function zonalMetrics(thermal: ThermalCase): Metrics {
   };
 }
 
-function metricsFor(thermal: ThermalCase, relativeTolerance: number): Metrics {
+function metricsFor(thermal: ThermalCase, def: SweepDefinition): Metrics {
   switch (REGIME_TABLE[thermal.regime].pipeline) {
     case "surface":
-      return metricsOf(thermal, relativeTolerance);
+      return metricsOf(thermal, def);
     case "map":
-      return mapMetrics(thermal, relativeTolerance);
+      return mapMetrics(thermal, def.relativeTolerance);
     case "zonal":
       return zonalMetrics(thermal);
   }
@@ -351,7 +362,7 @@ export function caseCells(def: SweepDefinition, c: CaseValues): Cell[] {
   try {
     const doc = structuredClone(def.scenario);
     def.design.axes.forEach((a, d) => setPath(doc, a.path, c.values[d]!));
-    metrics = metricsFor(resolveScenario(doc).thermal, def.relativeTolerance);
+    metrics = metricsFor(resolveScenario(doc).thermal, def);
   } catch (err) {
     status = `error: ${failureReason(err)}`.replace(/\s+/g, " ");
   }
@@ -372,7 +383,7 @@ export function caseRunner(def: SweepDefinition): (c: CaseValues) => Cell[] {
     if (thermal === null) return caseCells(def, c);
     let metrics: Metrics;
     try {
-      metrics = metricsFor(thermal, def.relativeTolerance);
+      metrics = metricsFor(thermal, def);
     } catch {
       return caseCells(def, c);
     }

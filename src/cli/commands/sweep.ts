@@ -78,7 +78,13 @@ function sweepDefinition(m: SweepModules, scenarioPath: string | undefined, flag
   const maxCases = flags.maxCases === undefined ? DEFAULT_MAX_CASES : integerFlag("--max-cases", flags.maxCases, 1, Number.MAX_SAFE_INTEGER);
   const scenario = m.loadScenarioDocument(scenarioPath).document as Record<string, unknown>;
   m.checkDefinition(scenario, design, maxCases);
-  return { scenario, design, relativeTolerance: toleranceFlag(flags.tolerance ?? String(DEFAULT_RELATIVE_TOLERANCE)), format };
+  return {
+    scenario,
+    design,
+    relativeTolerance: toleranceFlag(flags.tolerance ?? String(DEFAULT_RELATIVE_TOLERANCE)),
+    ...(flags.tolerance !== undefined ? { toleranceGiven: true as const } : {}),
+    format,
+  };
 }
 
 /** The definition's own flags, as given, for a job file to repeat. */
