@@ -115,4 +115,20 @@ describe("map sweeps", () => {
     expect(Number(at(rows[0]!, "flux_ratio_max"))).toBeLessThan(Number(at(rows[1]!, "flux_ratio_max")));
     expect(at(rows[0]!, "transit_depth")).toBe(0); // at 60° the planet passes far from the star's disc
   });
+
+  it("take a --tolerance finer than the map's default as given (it was raised to 1e-6 without a word)", async () => {
+    const { caseCells, columns } = await import("../src/sweep/runCase.js");
+    const { parseAxis } = await import("../src/sweep/spec.js");
+    const scenario = demo();
+    scenario.map = { longitudes: 8, latitudes: 4 };
+    const def = { scenario, design: { axes: [parseAxis("observer.inclination=88 deg")] }, relativeTolerance: 1e-8, toleranceGiven: true as const, format: "csv" as const };
+    const row = caseCells(def as never, { id: 0, values: ["88 deg"] } as never);
+    const names = columns(def as never);
+    const single = demo();
+    single.map = { longitudes: 8, latitudes: 4 };
+    single.observer.inclination = "88 deg";
+    const tight = observeMap(resolveScenario(single).thermal, { relativeTolerance: 1e-8, samples: 400 });
+    expect(row[names.indexOf("status")]).toBe("ok");
+    expect(row[names.indexOf("flux_ratio_max")]).toBe(tight.phase!.maxFluxRatio);
+  });
 });

@@ -32,8 +32,8 @@ export interface SweepDefinition {
   design: Design;
   relativeTolerance: number;
   /**
-   * Set when --tolerance was given: a conduction column then takes it as asked; without it a column
-   * takes its own default (1e-6), not the slab's 1e-8 held in relativeTolerance. Absent otherwise, so
+   * Set when --tolerance was given: a conduction column or a map then takes it as asked; without it
+   * each takes its own default (1e-6), not the slab's 1e-8 held in relativeTolerance. Absent otherwise, so
    * the definitions (and resumable files) of sweeps without --tolerance are as they were.
    */
   toleranceGiven?: true;
@@ -236,8 +236,9 @@ const NO_MAP = {
  * residual, and the phase curve's metrics when the scenario has an observer. A passband given as
  * a file is not read by sweep workers: give it inline ({from, to} or {wavelengths, response}).
  */
-function mapMetrics(thermal: ThermalCase, relativeTolerance: number): Metrics {
-  const o = observeMap(thermal, { relativeTolerance: Math.max(relativeTolerance, MAP_DEFAULT_TOLERANCE), samples: 400 });
+function mapMetrics(thermal: ThermalCase, def: SweepDefinition): Metrics {
+  // A map's own default unless --tolerance was given (then as asked, as `run` takes it).
+  const o = observeMap(thermal, { relativeTolerance: def.toleranceGiven ? def.relativeTolerance : MAP_DEFAULT_TOLERANCE, samples: 400 });
   const { sim } = o;
   let minK = Infinity;
   let maxK = -Infinity;
@@ -337,7 +338,7 @@ function metricsFor(thermal: ThermalCase, def: SweepDefinition): Metrics {
     case "surface":
       return metricsOf(thermal, def);
     case "map":
-      return mapMetrics(thermal, def.relativeTolerance);
+      return mapMetrics(thermal, def);
     case "zonal":
       return zonalMetrics(thermal);
   }
