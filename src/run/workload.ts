@@ -51,16 +51,19 @@ export function checkWorkload(thermal: ThermalCase, model: ThermalModel, transie
   if (transient || !model.commensurate) return;
   const points = model.cycleOrbits * model.statsPointsPerOrbit;
   if (points <= MAX_CYCLE_STATISTICS_POINTS) return;
-  const ratio = thermal.spin?.ratio;
-  const path = ratio ? "spin.orbitRatio" : "spin.period";
-  const given = ratio ? describeValue(`${ratio.spin}:${ratio.orbit}`) : `${thermal.spin?.rateRadPerSecond ? ((2 * Math.PI) / thermal.spin.rateRadPerSecond).toPrecision(6) : "?"} s`;
   const maxOrbits = Math.floor(MAX_CYCLE_STATISTICS_POINTS / model.statsPointsPerOrbit);
   const problem: FieldProblem = {
-    path,
-    given,
+    ...spinField(thermal),
     allowed: `a spin whose cycle repeats within ${maxOrbits} orbits (this one repeats after ${model.cycleOrbits} orbits, ${(points / 1e6).toFixed(1)} million statistics points against the ${(MAX_CYCLE_STATISTICS_POINTS / 1e6).toFixed(1)} million a run holds): a ratio p:q with a smaller q, or a spin.period that is not a ratio (its seasonal run summarises a shorter beat)`,
   };
   throw new CalorbitError("SCENARIO_INVALID", "the cycle is too long to hold", [problem]);
+}
+
+/** The spin field that sets a cycle's length, as the scenario gave it: spin.orbitRatio, or spin.period. */
+function spinField(thermal: ThermalCase): { path: string; given: string } {
+  const spin = thermal.spin;
+  if (spin?.ratio) return { path: "spin.orbitRatio", given: describeValue(`${spin.ratio.spin}:${spin.ratio.orbit}`) };
+  return { path: "spin.period", given: `${spin?.rateRadPerSecond ? ((2 * Math.PI) / spin.rateRadPerSecond).toPrecision(6) : "?"} s` };
 }
 
 /**
@@ -79,7 +82,6 @@ function checkColumnWorkload(thermal: ThermalCase, model: ColumnModel): void {
   const periods = layout.cycleSeconds / layout.shortestSeconds;
   const wouldFit = (stepsPerPeriod: number, layerCount: number) => (Math.ceil(stepsPerPeriod * periods) + 1) * layerCount * columns <= MAX_COLUMN_LAYER_STEPS && stepsPerPeriod * periods <= MAX_COLUMN_STEPS_PER_CYCLE;
   const size = `${layout.stepsAsked.toLocaleString("en-US")} steps × ${layers} layers${columns > 1 ? ` × ${columns} columns` : ""} = ${(held / 1e6).toFixed(1)} million layer temperatures against the ${(MAX_COLUMN_LAYER_STEPS / 1e6).toFixed(1)} million a run holds`;
-  const ratio = thermal.spin?.ratio;
   let problem: FieldProblem;
   if (grid.stepsPerShortestPeriod > DEFAULT_GRID.stepsPerShortestPeriod && wouldFit(DEFAULT_GRID.stepsPerShortestPeriod, layers)) {
     problem = { path: "body.column.grid.stepsPerDay", given: String(grid.stepsPerShortestPeriod), allowed: `fewer steps per day, e.g. the default ${DEFAULT_GRID.stepsPerShortestPeriod} (this cycle: ${size})` };
@@ -89,8 +91,7 @@ function checkColumnWorkload(thermal: ThermalCase, model: ColumnModel): void {
     const orbits = model.cycleOrbits;
     const what = orbits > 1 ? `a cycle of ${orbits} orbits` : `${periods.toFixed(0)} solar days per orbit`;
     problem = {
-      path: ratio ? "spin.orbitRatio" : "spin.period",
-      given: ratio ? describeValue(`${ratio.spin}:${ratio.orbit}`) : `${thermal.spin?.rateRadPerSecond ? ((2 * Math.PI) / thermal.spin.rateRadPerSecond).toPrecision(6) : "?"} s`,
+      ...spinField(thermal),
       allowed: `a spin whose column cycle fits (this one: ${what}, ${size}): ${orbits > 1 ? "a ratio p:q with a smaller q" : "a slower spin"}, fewer body.column.grid.stepsPerDay, or a slab (body.heatCapacity), whose cycle holds far less`,
     };
   }
