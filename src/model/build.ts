@@ -112,12 +112,22 @@ const STATISTICS_POINTS_PER_RADIATIVE_TIME = 8;
 const MOST_POINTS_PER_ORBIT_FOR_RADIATIVE_TIME = 16_384;
 const MOST_POINTS_PER_CYCLE_FOR_RADIATIVE_TIME = 1 << 20;
 
-function statisticsPointsPerOrbit(eccentricity: number, solarDaysPerOrbit: number, corners: boolean): number {
+/** A slab's climb after sunrise, for the grid: its radiative time over the orbit's period, and the orbits in its cycle. */
+interface Climb {
+  periodOverRadiativeTime: number;
+  cycleOrbits: number;
+}
+
+function statisticsPointsPerOrbit(eccentricity: number, solarDaysPerOrbit: number, corners: boolean, climb?: Climb): number {
   const width = Math.sqrt(2 * (1 - eccentricity));
   const forPeriastron = Math.min(8192, Math.max(256, Math.ceil((512 * Math.sqrt(0.2)) / width / 64) * 64));
   // Sunrise and sunset put corners in the integrands, where the rules lose their order: more points.
   const forCorners = corners ? 2048 : 0;
-  return Math.min(1 << 20, Math.max(forPeriastron, forCorners, Math.ceil(STATISTICS_POINTS_PER_SOLAR_DAY * solarDaysPerOrbit)));
+  const points = Math.min(1 << 20, Math.max(forPeriastron, forCorners, Math.ceil(STATISTICS_POINTS_PER_SOLAR_DAY * solarDaysPerOrbit)));
+  if (!corners || !climb) return points;
+  const forClimb = Math.ceil(STATISTICS_POINTS_PER_RADIATIVE_TIME * climb.periodOverRadiativeTime);
+  const most = Math.min(MOST_POINTS_PER_ORBIT_FOR_RADIATIVE_TIME, Math.floor(MOST_POINTS_PER_CYCLE_FOR_RADIATIVE_TIME / climb.cycleOrbits));
+  return Math.max(points, Math.min(most, forClimb));
 }
 
 /**
@@ -208,21 +218,19 @@ export function buildThermalModel(thermal: ThermalCase, regime?: RegimeEntry): T
           break;
         }
       }
+      const tauSeconds = radiativeTimeSeconds(store.heatCapacityJPerM2K, thermal.surface.emissivity, scaleK);
+      const climb: Climb = { periodOverRadiativeTime: orbit.periodSeconds / tauSeconds, cycleOrbits: surface.cycleOrbits };
       const model: SlabModel = {
         ...common,
         kind: "slab",
         heatStore: store,
         system,
-        radiativeTimeSeconds: radiativeTimeSeconds(store.heatCapacityJPerM2K, thermal.surface.emissivity, scaleK),
+        radiativeTimeSeconds: tauSeconds,
+        statsPointsPerOrbit: statisticsPointsPerOrbit(e, solarDaysPerOrbit, surface.forcingHasCorners, climb),
         stiffness: 0,
         ...(independentCells ? { independentCells } : {}),
       };
       model.stiffness = stiffnessOf(system, surface.cycleOrbits, model.equilibriumAt);
-      if (surface.forcingHasCorners) {
-        const forClimb = Math.ceil((STATISTICS_POINTS_PER_RADIATIVE_TIME * orbit.periodSeconds) / model.radiativeTimeSeconds);
-        const most = Math.min(MOST_POINTS_PER_ORBIT_FOR_RADIATIVE_TIME, Math.floor(MOST_POINTS_PER_CYCLE_FOR_RADIATIVE_TIME / surface.cycleOrbits));
-        model.statsPointsPerOrbit = Math.max(model.statsPointsPerOrbit, Math.min(most, forClimb));
-      }
       return model;
     }
   }
