@@ -4,6 +4,7 @@
  * validated and simulated; the chosen output series of the converged cycle is interpolated at
  * the data's times plus the time offset, wrapped into the cycle (the periodic steady state repeats).
  */
+import { MIN_COLUMN_TOLERANCE } from "../defaults.js";
 import { CalorbitError } from "../errors.js";
 import { resolveScenario } from "../scenario/resolve.js";
 import { simulate } from "../run/simulate.js";
@@ -117,7 +118,7 @@ export function modelCurve(settings: ForwardSettings, values: ArrayLike<number>)
   if (pipeline === "zonal") return zonalCurve(settings, thermal);
   if (out.kind === "latitude") throw outputMismatch(out, "latitude=<angle> only for the zonal climate (regime: zonal)");
   if (thermal.column) {
-    const col = simulate(thermal, { relativeTolerance: Math.max(settings.relativeTolerance, 1e-12), samples: settings.samples });
+    const col = simulate(thermal, { relativeTolerance: Math.max(settings.relativeTolerance, MIN_COLUMN_TOLERANCE), samples: settings.samples });
     if (out.kind === "state") throw outputMismatch(out, "surface or depth=<length> for a conduction column");
     const value = out.kind === "depth" ? col.series.depths![0]!.temperatureK : col.series.temperatureK;
     return { timeSeconds: col.series.timeSeconds, value, periodic: true };

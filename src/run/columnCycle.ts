@@ -7,7 +7,7 @@
  * refuses an exchange there), so the columns are independent and the cost is linear in the cells.
  */
 import { anomaliesUniformInTime } from "../analysis/orbitSampling.js";
-import { DEFAULT_COLUMN_TOLERANCE } from "../defaults.js";
+import { DEFAULT_COLUMN_TOLERANCE, MIN_COLUMN_TOLERANCE } from "../defaults.js";
 import { CalorbitError, requireNumber } from "../errors.js";
 import type { ColumnModel } from "../model/build.js";
 import type { ThermalCase } from "../model/thermalCase.js";
@@ -60,7 +60,7 @@ export function columnLayout(thermal: ThermalCase, model: ColumnModel): ColumnLa
 
 export function columnCycle(thermal: ThermalCase, model: ColumnModel, request: CycleRequest): ConvergedCycle {
   const rtol = request.relativeTolerance;
-  requireNumber("tolerance", rtol, (t) => t >= 1e-12 && t <= 1e-2, "1e-12 ≤ tolerance ≤ 1e-2");
+  requireNumber("tolerance", rtol, (t) => t >= MIN_COLUMN_TOLERANCE && t <= 1e-2, `${MIN_COLUMN_TOLERANCE} ≤ tolerance ≤ 1e-2`);
   if (request.transient) {
     throw new CalorbitError("INVALID_ARGUMENT", "no transient mode for a conduction column", [
       { path: "from", given: `${request.transient.startK} K`, allowed: "no transient mode for a conduction column yet (it runs to its periodic state)" },

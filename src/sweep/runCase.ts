@@ -7,6 +7,7 @@ import { DAY_S } from "../constants.js";
 import { CalorbitError, formatProblem } from "../errors.js";
 import { resolveScenario } from "../scenario/resolve.js";
 import { DEFAULT_COLUMN_TOLERANCE, simulate } from "../run/simulate.js";
+import { MIN_COLUMN_TOLERANCE } from "../defaults.js";
 import { heatStoreOf } from "../model/heatStore.js";
 import type { ThermalCase } from "../model/thermalCase.js";
 import { REGIME_TABLE } from "../model/regimes.js";
@@ -17,9 +18,6 @@ import { VERSION } from "../version.js";
 import type { CaseValues, Design, Shard } from "./design.js";
 import { caseScenarios } from "./caseScenario.js";
 import { columnValue, setPath } from "./spec.js";
-
-/** The finest tolerance a conduction column takes (its solver's floor); a finer one given for a sweep is raised to it. */
-const MIN_COLUMN_TOLERANCE = 1e-12;
 
 export type SweepFormat = "csv" | "jsonl" | "parquet";
 
