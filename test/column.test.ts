@@ -1,20 +1,10 @@
 import { describe, expect, it } from "vitest";
 import { STEFAN_BOLTZMANN } from "../src/constants.js";
-import { buildColumnGrid, DEFAULT_GRID, skinDepthM, type ColumnProperties } from "../src/physics/column.js";
+import { buildColumnGrid, DEFAULT_GRID, skinDepthM } from "../src/physics/column.js";
 import { solveColumnPeriodic, solveSurface, type ColumnProblem } from "../src/solve/columnSolver.js";
 import { CalorbitError } from "../src/errors.js";
 import { simulate } from "../src/run/simulate.js";
-import { nominalCase } from "./helpers.js";
-
-const homogeneous = (k: number, rho: number, c: number): ColumnProperties => ({
-  densitySurface: rho,
-  densityDeep: rho,
-  conductivitySurface: k,
-  conductivityDeep: k,
-  eFoldingDepthM: Infinity,
-  specificHeatPolynomial: [c],
-  radiativeChi: 0,
-});
+import { homogeneous, nominalCase } from "./helpers.js";
 
 /** A half-space under F(t) = F₀(1 + a cos ωt), one period per cycle, time = E/ω. */
 function halfSpace(amplitude: number, stepsPerCycle: number, topFraction = 0.02, growth = 1.08) {

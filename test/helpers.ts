@@ -1,6 +1,7 @@
 /** Shared builders for engine tests: real-world check values live in the tests themselves. */
 import { ASTRONOMICAL_UNIT_M, SOLAR_LUMINOSITY_W, SOLAR_MASS_KG } from "../src/constants.js";
 import type { ThermalCase } from "../src/model/thermalCase.js";
+import type { ColumnProperties } from "../src/physics/column.js";
 import type { SurfaceProperties } from "../src/physics/energyBalance.js";
 
 /** A case around a star with the IAU 2015 nominal solar luminosity and mass. */
@@ -35,3 +36,14 @@ export function nominalCase(overrides: {
     ...(overrides.windowK ? { windowK: overrides.windowK } : {}),
   };
 }
+
+/** A conduction column of one material: k (W m⁻¹ K⁻¹), ρ (kg m⁻³) and c (J kg⁻¹ K⁻¹) at every depth, no radiative conduction. */
+export const homogeneous = (k: number, rho: number, c: number): ColumnProperties => ({
+  densitySurface: rho,
+  densityDeep: rho,
+  conductivitySurface: k,
+  conductivityDeep: k,
+  eFoldingDepthM: Infinity,
+  specificHeatPolynomial: [c],
+  radiativeChi: 0,
+});

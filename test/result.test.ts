@@ -4,24 +4,14 @@
  * the column adding only its extras (depth profile, skin depths, deep mean, layer map).
  */
 import { describe, expect, it } from "vitest";
-import { DEFAULT_GRID, type ColumnProperties } from "../src/physics/column.js";
+import { DEFAULT_GRID } from "../src/physics/column.js";
 import { seriesCsv } from "../src/report/csv.js";
 import { resultDocument } from "../src/report/document.js";
 import { temperatureSvg } from "../src/report/svg.js";
 import { summaryText } from "../src/report/text.js";
 import { simulate } from "../src/run/simulate.js";
 import type { ResolvedScenario } from "../src/scenario/resolve.js";
-import { nominalCase } from "./helpers.js";
-
-const homogeneous = (k: number, rho: number, c: number): ColumnProperties => ({
-  densitySurface: rho,
-  densityDeep: rho,
-  conductivitySurface: k,
-  conductivityDeep: k,
-  eFoldingDepthM: Infinity,
-  specificHeatPolynomial: [c],
-  radiativeChi: 0,
-});
+import { homogeneous, nominalCase } from "./helpers.js";
 
 /** Every key path of a plain object (arrays of records: the keys of their first element). */
 function keyPaths(value: unknown, prefix = ""): string[] {
